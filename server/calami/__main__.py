@@ -1,0 +1,3 @@
+from calami.cli import main
+
+raise SystemExit(main())

@@ -1,0 +1,1 @@
+"""calami.model."""
