@@ -1,0 +1,124 @@
+"""The lexicon: which words exist, in which case forms and spelling variants.
+
+Words are identified by their lower-case form (a *key*); the key's id is the
+word id shared by the language model and the candidate index.  Case is a
+property of the accepted surface forms: "python" may be written "Python" at
+the start of a sentence, but "PostgreSQL" only as listed (or in ALLCAPS).
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+from typing import Iterable, Sequence
+
+US = 1  # accepted in en-US
+GB = 2  # accepted in en-GB
+LOWER = 4  # the all-lower-case form itself is a word (not only a cased name)
+CORPUS = 8  # admitted from the training corpus, not from the word lists
+
+VARIANT_BITS = {"any": US | GB, "en-US": US, "en-GB": GB}
+
+
+@dataclass(frozen=True, slots=True)
+class Lookup:
+    """The outcome of looking up a surface form."""
+
+    key_id: int | None  # id of the lower-case key, if the key exists at all
+    accepted: bool  # the form as typed (case included) is right
+    other_variant: bool = False  # right, but only in the other spelling variant
+
+
+class Lexicon:
+    """Lower-case keys with flags, plus the cased forms that are allowed."""
+
+    def __init__(self, keys: Sequence[str], flags: bytes | bytearray, cased: Iterable[str]) -> None:
+        if len(keys) != len(flags):
+            raise ValueError("lexicon keys and flags differ in length")
+        self.keys = list(keys)
+        self.flags = bytes(flags)
+        self.ids: dict[str, int] = {k: i for i, k in enumerate(self.keys)}
+        forms: dict[str, list[str]] = {}
+        for form in cased:
+            forms.setdefault(form.lower(), []).append(form)
+        self.cased: dict[str, tuple[str, ...]] = {k: tuple(v) for k, v in forms.items()}
+
+    def __len__(self) -> int:
+        return len(self.keys)
+
+    def __contains__(self, key: str) -> bool:
+        return key in self.ids
+
+    def id(self, key: str) -> int | None:
+        return self.ids.get(key)
+
+    def lookup(self, word: str, variant: str = "any") -> Lookup:
+        """Is ``word`` (as typed) right?  Handles case, possessives and variants."""
+        word = word.replace("’", "'")
+        result = self._lookup_form(word, variant)
+        if result.accepted or result.key_id is not None:
+            return result
+        # Possessives are not listed separately: "parser's", "users'".
+        if word.endswith(("'s", "'S")):
+            stem = self._lookup_form(word[:-2], variant)
+            if stem.accepted:
+                return stem
+        elif word.endswith("'") and len(word) > 2:
+            stem = self._lookup_form(word[:-1], variant)
+            if stem.accepted:
+                return stem
+        return result
+
+    def _lookup_form(self, word: str, variant: str) -> Lookup:
+        key = word.lower()
+        kid = self.ids.get(key)
+        if kid is None:
+            return Lookup(None, False)
+        flags = self.flags[kid]
+        case_ok = self._case_ok(word, key, flags)
+        if not case_ok:
+            return Lookup(kid, False)
+        wanted = VARIANT_BITS.get(variant, US | GB)
+        if flags & wanted:
+            return Lookup(kid, True)
+        return Lookup(kid, False, other_variant=True)
+
+    def _case_ok(self, word: str, key: str, flags: int) -> bool:
+        if word == key:
+            return bool(flags & LOWER)
+        forms = self.cased.get(key, ())
+        if word in forms:
+            return True
+        if word.isupper():
+            return True  # ALLCAPS of any known form
+        if word[0].isupper() and word[1:] == key[1:]:
+            # Sentence-initial or title case of a lower-case word, or of a name
+            # whose listed form is itself capitalised this way.
+            return bool(flags & LOWER)
+        return False
+
+    def display_forms(self, key: str) -> tuple[str, ...]:
+        """How a key is normally written: its cased forms, or the key itself."""
+        kid = self.ids.get(key)
+        if kid is not None and self.flags[kid] & LOWER:
+            return (key,)
+        return self.cased.get(key, (key,))
+
+    def is_variant(self, key_id: int, variant: str) -> bool:
+        return bool(self.flags[key_id] & VARIANT_BITS.get(variant, US | GB))
+
+
+def restore_case(typed: str, candidate_key: str, lexicon: Lexicon) -> str:
+    """Write a suggested key in the case pattern of the typed word.
+
+    "Teh" -> "The", "RECIEVE" -> "RECEIVE"; a name keeps its own form
+    ("pyhton" -> "Python" only if "python" is not itself a word).
+    """
+    forms = lexicon.display_forms(candidate_key)
+    form = forms[0]
+    if len(typed) > 1 and typed.isupper():
+        return form.upper()
+    if typed[:1].isupper():
+        if form == candidate_key:
+            return form[:1].upper() + form[1:]
+        return form
+    return form
