@@ -1,0 +1,357 @@
+"""``calami check PATH...``: check files, folders or standard input; report; exit 0/1/2.
+
+Exit codes: 0 nothing found, 1 findings, 2 a usage, config or I/O error
+(checking goes on past an unreadable file so one report covers everything,
+but the run still ends with 2).
+
+With ``--jobs N`` the documents are shared among N worker processes, each
+loading the model once.  Tasks and results cross the process boundary as
+msgpack bytes, so none of our objects is pickled.
+"""
+
+from __future__ import annotations
+
+import argparse
+import os
+import sys
+from dataclasses import dataclass, field
+from pathlib import Path
+from typing import Any, Callable, Iterator
+
+VARIANTS = ("any", "en-US", "en-GB")
+FORMATS = ("text", "json", "sarif")
+
+
+def register(subparsers: "argparse._SubParsersAction[argparse.ArgumentParser]") -> None:
+    parser = subparsers.add_parser(
+        "check",
+        help="check files, folders or standard input and report likely misspellings",
+        description="Check the prose of files and folders (recursively, honouring .gitignore). "
+        "Exit status: 0 nothing found, 1 findings, 2 usage, config or I/O error.",
+    )
+    parser.add_argument("paths", nargs="+", metavar="PATH", help="file or folder to check; '-' reads standard input")
+    parser.add_argument("--kind", help="document kind for every file (default: from name, extension or shebang)")
+    parser.add_argument("--format", choices=FORMATS, default="text", help="report format (default: text)")
+    parser.add_argument("--variant", choices=VARIANTS, help="spelling variant (overrides the project config)")
+    parser.add_argument("-j", "--jobs", type=int, default=1, metavar="N", help="worker processes (default: 1)")
+    parser.add_argument("--color", choices=("auto", "always", "never"), default="auto", help="colour in the text report")
+    parser.add_argument("--model", metavar="FILE", help="model file (default: the one shipped with calami)")
+    parser.add_argument("--max-bytes", type=int, metavar="N", help="skip files larger than N bytes (default: 2 MiB)")
+    parser.set_defaults(run=run)
+
+
+# --------------------------------------------------------------- documents
+
+
+def _formats() -> tuple[Callable[..., Any], Callable[..., Any], Any]:
+    """(extract, detect_kind, KINDS) of ``calami.text.formats``."""
+    try:
+        from calami.text.formats import KINDS, detect_kind, extract
+    except ImportError:  # TEMPORARY: until the prose extractors land, all text is prose
+        from calami.text.spans import Span
+
+        suffixes = {".md": "markdown", ".markdown": "markdown", ".rst": "rst", ".txt": "plain", ".tex": "latex"}
+
+        def extract(text: str, kind: str, options: Any = None) -> list[Span]:
+            return [Span(0, len(text))]
+
+        def detect_kind(path: str, first_line: str) -> str | None:
+            return suffixes.get(Path(path).suffix.lower())
+
+        KINDS = ("markdown", "rst", "plain", "latex")
+    return extract, detect_kind, KINDS
+
+
+
+@dataclass
+class Task:
+    """One document to check: where it came from and how to read it."""
+
+    display: str  # path as shown in the report ("-" for standard input)
+    file: str | None  # absolute path, or None when ``text`` is given
+    root: str  # project root
+    kind: str | None = None  # forced kind (--kind)
+    text: str | None = None  # standard input
+
+    def pack(self) -> dict[str, Any]:
+        return {"display": self.display, "file": self.file, "root": self.root, "kind": self.kind, "text": self.text}
+
+
+@dataclass
+class Plan:
+    tasks: list[Task] = field(default_factory=list)
+    errors: list[str] = field(default_factory=list)
+    projects: dict[str, Any] = field(default_factory=dict)  # root -> Project
+
+
+def plan(paths: list[str], kind: str | None, stdin_text: Callable[[], str]) -> Plan:
+    """Expand the command line into documents, loading each project once."""
+    from calami.vocab.project import load_project
+    from calami.walk import walk
+
+    _, detect_kind, _ = _formats()
+    result = Plan()
+
+    def project_for(start: Path):
+        project = load_project(start)
+        return result.projects.setdefault(str(project.root), project)
+
+    for raw in paths:
+        if raw == "-":
+            project = project_for(Path.cwd())
+            result.tasks.append(Task("-", None, str(project.root), kind, stdin_text()))
+            continue
+        path = Path(raw)
+        if path.is_dir():
+            project = project_for(path)
+            for found in walk(path, project.selects):
+                found_kind = kind
+                if found_kind is None:
+                    found_kind = detect_kind(str(found), _first_line(found))
+                    if found_kind is None:
+                        continue  # not a document kind we read
+                result.tasks.append(Task(_display(found, raw, path), str(found.resolve()), str(project.root), found_kind))
+        elif path.is_file():
+            project = project_for(path)
+            result.tasks.append(Task(raw, str(path.resolve()), str(project.root), kind))
+        elif path.exists():
+            result.errors.append(f"{raw}: not a regular file or folder")
+        else:
+            result.errors.append(f"{raw}: no such file or folder")
+    return result
+
+
+def _display(found: Path, raw: str, folder: Path) -> str:
+    """The path as the user would type it: the argument joined with the part found under it."""
+    rel = found.relative_to(folder.resolve())
+    return Path(os.path.normpath(os.path.join(raw, rel))).as_posix()
+
+
+def _first_line(path: Path) -> str:
+    try:
+        with open(path, "rb") as handle:
+            return handle.readline(200).decode("utf-8", "replace").rstrip("\r\n")
+    except OSError:
+        return ""
+
+
+# --------------------------------------------------------------- checking
+
+
+class Worker:
+    """Checks tasks with one model; builds one checker per project (cached)."""
+
+    def __init__(self, make_checker: Callable[[Any, str | None], Any], variant: str | None, max_bytes: int | None) -> None:
+        self.make_checker = make_checker
+        self.variant = variant
+        self.max_bytes = max_bytes
+        self.projects: dict[str, Any] = {}
+        self.checkers: dict[str, Any] = {}
+
+    def project(self, root: str):
+        if root not in self.projects:
+            from calami.vocab.project import Project
+
+            self.projects[root] = Project(Path(root))
+        return self.projects[root]
+
+    def checker(self, root: str):
+        if root not in self.checkers:
+            self.checkers[root] = self.make_checker(self.project(root), self.variant)
+        return self.checkers[root]
+
+    def run(self, task: dict[str, Any]) -> dict[str, Any]:
+        """Check one task; the result is plain data (see ``_unpack_result``)."""
+        from calami.report import locate
+        from calami.walk import DEFAULT_MAX_BYTES, Skipped, read_document
+
+        _, detect_kind, _ = _formats()
+        out: dict[str, Any] = {"display": task["display"], "findings": [], "notes": [], "skipped": None, "error": None}
+        text = task["text"]
+        if text is None:
+            path = Path(task["file"])
+            try:
+                read = read_document(path, self.max_bytes or DEFAULT_MAX_BYTES)
+            except OSError as exc:
+                out["error"] = f"{task['display']}: cannot read: {exc.strerror or exc}"
+                return out
+            if isinstance(read, Skipped):
+                out["skipped"] = read.reason
+                return out
+            text = read
+        kind = task["kind"] or detect_kind(task["file"] or "-", text.split("\n", 1)[0]) or "plain"
+        project = self.project(task["root"])
+        findings, notes = check_document(text, kind, project, self.checker(task["root"]))
+        out["notes"] = [f"{task['display']}: {note}" for note in notes]
+        for item in locate(task["display"], text, findings):
+            f = item.finding
+            out["findings"].append(
+                [item.line, item.column, item.end_line, item.end_column, f.start, f.end, f.word, f.kind,
+                 float(f.confidence), bool(f.confident), [[s.text, float(s.probability)] for s in f.suggestions],
+                 item.context]
+            )
+        return out
+
+
+def check_document(text: str, kind: str, project: Any, checker: Any) -> tuple[list[Any], list[str]]:
+    """Findings in one document's prose, after the project's ignore patterns cut theirs out."""
+    from calami.text.spans import subtract
+
+    extract, _, _ = _formats()
+    try:
+        from calami.text.formats import ExtractOptions
+
+        options: Any = ExtractOptions(strings=project.config.check_strings)
+    except ImportError:  # TEMPORARY, see _formats
+        options = None
+    spans = extract(text, kind, options)
+    holes, notes = project.ignore_holes(text)
+    if holes:
+        spans = subtract(spans, holes)
+    return checker.check(text, spans), notes
+
+
+def _unpack_result(result: dict[str, Any]):
+    from calami.findings import Finding, Suggestion
+    from calami.report import Located
+
+    located = []
+    for line, column, end_line, end_column, start, end, word, kind, confidence, confident, suggestions, context in result["findings"]:
+        finding = Finding(start, end, word, kind, confidence, tuple(Suggestion(t, p) for t, p in suggestions), confident)
+        located.append(Located(result["display"], line, column, end_line, end_column, finding, context))
+    return located
+
+
+def default_checker_factory(model_path: str | None) -> Callable[[Any, str | None], Any]:
+    """Load the model once; return a function building a project's checker."""
+    from calami.checker import Checker
+    from calami.model import load
+
+    model = load(model_path)
+
+    def make(project: Any, variant: str | None) -> Any:
+        config = project.config
+        return Checker(
+            model,
+            adaptations=[project.words],
+            variant=variant or config.variant,
+            thresholds=config.thresholds,
+            max_suggestions=config.max_suggestions,
+        )
+
+    return make
+
+
+# Tests replace this to run the command against a fake checker (inherited by
+# forked workers too).
+CHECKER_FACTORY: Callable[[str | None], Callable[[Any, str | None], Any]] = default_checker_factory
+
+_WORKER: Worker | None = None
+
+
+def _init_worker(model_path: str | None, variant: str | None, max_bytes: int | None) -> None:
+    global _WORKER
+    _WORKER = Worker(CHECKER_FACTORY(model_path), variant, max_bytes)
+
+
+def _work(packed: bytes) -> bytes:
+    import msgpack
+
+    assert _WORKER is not None
+    return msgpack.packb(_WORKER.run(msgpack.unpackb(packed)))
+
+
+def _results(tasks: list[Task], args: argparse.Namespace) -> Iterator[dict[str, Any]]:
+    """Results in task order, from this process or from a pool."""
+    jobs = max(1, min(args.jobs, len(tasks)))
+    if jobs == 1:
+        worker = Worker(CHECKER_FACTORY(args.model), args.variant, args.max_bytes)
+        for task in tasks:
+            yield worker.run(task.pack())
+        return
+    import multiprocessing
+
+    import msgpack
+
+    method = "fork" if "fork" in multiprocessing.get_all_start_methods() else None
+    context = multiprocessing.get_context(method)
+    packed = [msgpack.packb(task.pack()) for task in tasks]
+    chunk = max(1, min(16, len(tasks) // (jobs * 8)))
+    with context.Pool(jobs, initializer=_init_worker, initargs=(args.model, args.variant, args.max_bytes)) as pool:
+        for result in pool.imap(_work, packed, chunksize=chunk):
+            yield msgpack.unpackb(result)
+
+
+# --------------------------------------------------------------- the command
+
+
+def run(args: argparse.Namespace) -> int:
+    from calami.errors import CalamiError
+    from calami.report import Summary
+    from calami.report import json_array, sarif, text as text_report
+    from calami.report.progress import Progress
+
+    _, _, KINDS = _formats()
+    if args.jobs < 1:
+        raise CalamiError("--jobs must be at least 1")
+    if args.kind is not None and args.kind not in KINDS:
+        raise CalamiError(f"unknown kind {args.kind!r}; choose from {', '.join(sorted(KINDS))}")
+    if args.paths.count("-") > 1:
+        raise CalamiError("'-' (standard input) may be given only once")
+
+    work = plan(args.paths, args.kind, lambda: sys.stdin.read())
+    config_errors = [e for project in work.projects.values() for e in project.config.errors]
+    if config_errors:
+        for message in config_errors:
+            print(f"calami: {message}", file=sys.stderr)
+        return 2
+
+    summary = Summary(notes=[], failed=bool(work.errors))
+    for message in work.errors:
+        print(f"calami: {message}", file=sys.stderr)
+        summary.notes.append(message)
+    colour = text_report.use_colour(sys.stdout, args.color)
+    progress = Progress(len(work.tasks), sys.stderr)
+    everything = []
+    try:
+        for done, result in enumerate(_results(work.tasks, args), start=1):
+            progress.update(done, result["display"])
+            for note in result["notes"]:
+                _note(progress, note, summary)
+            if result["error"]:
+                summary.failed = True
+                progress.close()
+                print(f"calami: {result['error']}", file=sys.stderr)
+                summary.notes.append(result["error"])
+                continue
+            if result["skipped"]:
+                summary.files_skipped += 1
+                _note(progress, f"{result['display']}: skipped ({result['skipped']})", summary)
+                continue
+            located = _unpack_result(result)
+            summary.count(located)
+            if args.format == "text":
+                if located:
+                    progress.close()
+                    text_report.write_document(sys.stdout, located, colour)
+            else:
+                everything.extend(located)
+    finally:
+        progress.close()
+
+    if args.format == "json":
+        sys.stdout.write(json_array.render(everything))
+    elif args.format == "sarif":
+        sys.stdout.write(sarif.render(everything, summary, Path.cwd()))
+    else:
+        sys.stdout.write(text_report.summary_line(summary) + "\n")
+    sys.stdout.flush()
+    if summary.failed:
+        return 2
+    return 1 if summary.findings else 0
+
+
+def _note(progress: Any, message: str, summary: Any) -> None:
+    progress.close()
+    print(f"calami: note: {message}", file=sys.stderr)
+    summary.notes.append(message)

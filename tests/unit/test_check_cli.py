@@ -1,0 +1,240 @@
+"""``calami check`` end to end, against a small fake checker (the real engine
+has its own tests; ``test_check_real.py`` runs this command with it).
+
+The fake flags the words of ``TYPOS`` (non-words) and ``form`` before ``disk``
+(a real-word error), honours the project's words, and records how it was
+built, so these tests see exactly what the command passes to a checker.
+"""
+
+from __future__ import annotations
+
+import json
+import os
+from pathlib import Path
+
+import pytest
+
+from calami import cli
+from calami.commands import check as check_command
+from calami.findings import Finding, Suggestion, Thresholds
+from calami.text.tokens import WORD, tokenize
+
+TYPOS = {"wrold": ["world", "wold"], "recieve": ["receive"], "teh": ["the", "ten"]}
+BUILT: list[dict] = []
+
+
+class FakeChecker:
+    def __init__(self, project, variant):
+        self.words = project.words
+        BUILT.append({"root": project.root, "variant": variant, "thresholds": project.config.thresholds})
+
+    def check(self, text, spans=None):
+        tokens = tokenize(text, spans)
+        found = []
+        for i, tok in enumerate(tokens):
+            if tok.kind != WORD or self.words.accepts(tok.text):
+                continue
+            nxt = tokens[i + 1].text if i + 1 < len(tokens) else ""
+            if tok.text.lower() in TYPOS:
+                sugg = tuple(Suggestion(s, 0.9 / (n + 1)) for n, s in enumerate(TYPOS[tok.text.lower()]))
+                found.append(Finding(tok.start, tok.end, tok.text, "nonword", 0.97, sugg, confident=True))
+            elif tok.text == "form" and nxt == "disk":
+                found.append(Finding(tok.start, tok.end, tok.text, "realword", 0.8, (Suggestion("from", 0.8),)))
+        return found
+
+
+@pytest.fixture(autouse=True)
+def fake_checker(monkeypatch):
+    BUILT.clear()
+    monkeypatch.setattr(check_command, "CHECKER_FACTORY", lambda model_path: FakeChecker)
+    monkeypatch.delenv("NO_COLOR", raising=False)
+
+
+def run(argv, capsys, cwd=None, monkeypatch=None):
+    if cwd is not None:
+        monkeypatch.chdir(cwd)
+    code = cli.main(["check", *argv])
+    out, err = capsys.readouterr()
+    return code, out, err
+
+
+def write(path: Path, text: str, newline: str = "\n") -> Path:
+    path.parent.mkdir(parents=True, exist_ok=True)
+    with open(path, "w", encoding="utf-8", newline=newline) as handle:
+        handle.write(text)
+    return path
+
+
+@pytest.fixture
+def project(tmp_path):
+    (tmp_path / ".git").mkdir()  # marks the project root
+    return tmp_path
+
+
+def test_text_report_places_the_marker_under_the_word(project, capsys, monkeypatch):
+    write(project / "notes.txt", "First line is fine.\nWe will recieve it.\n")
+    code, out, err = run(["notes.txt"], capsys, project, monkeypatch)
+    assert code == 1
+    lines = out.splitlines()
+    assert lines[0] == "notes.txt:2:9: recieve (unknown word, confident fix)"
+    context, marker = lines[1], lines[2]
+    assert context.endswith("We will recieve it.")
+    offset = context.index("We will recieve")
+    assert marker[offset + len("We will "):] == "^" * len("recieve")
+    assert lines[3].strip() == "= suggestions: receive"
+    assert lines[-1] == "1 finding (1 unknown) in 1 file; 1 file checked."
+    assert "\x1b[" not in out  # captured stdout is not a terminal
+
+
+def test_marker_stays_under_the_word_after_tabs_and_wide_characters(project, capsys, monkeypatch):
+    write(project / "wide.txt", "\t中文 and 🙂 then teh end\n")
+    code, out, _ = run(["wide.txt"], capsys, project, monkeypatch)
+    lines = out.splitlines()
+    assert lines[0] == "wide.txt:1:16: teh (unknown word, confident fix)"
+    # Tab -> 4 cells, each CJK character and the emoji take 2 cells.
+    context, marker = lines[1], lines[2]
+    bar = context.index("|") + 2
+    shown = context[bar:]
+    assert shown == "    中文 and 🙂 then teh end"
+    cells_before = 4 + 4 + len(" and ") + 2 + len(" then ")
+    assert marker[bar:] == " " * cells_before + "^^^"
+
+
+def test_clean_file_exits_zero_with_a_summary(project, capsys, monkeypatch):
+    write(project / "ok.md", "Nothing wrong here.\n")
+    code, out, err = run(["ok.md"], capsys, project, monkeypatch)
+    assert code == 0
+    assert out == "No findings in 1 file checked.\n"
+
+
+def test_missing_file_is_an_io_error_but_other_files_are_checked(project, capsys, monkeypatch):
+    write(project / "a.txt", "teh\n")
+    code, out, err = run(["nope.txt", "a.txt"], capsys, project, monkeypatch)
+    assert code == 2
+    assert "calami: nope.txt: no such file or folder" in err
+    assert "a.txt:1:1: teh" in out
+
+
+def test_standard_input(project, capsys, monkeypatch):
+    import io
+
+    monkeypatch.setattr("sys.stdin", io.StringIO("Hello wrold\n"))
+    code, out, _ = run(["--format", "json", "-"], capsys, project, monkeypatch)
+    assert code == 1
+    [item] = json.loads(out)
+    assert item["path"] == "-" and item["word"] == "wrold" and item["column"] == 7
+
+
+def test_json_shape_and_code_point_columns(project, capsys, monkeypatch):
+    # CRLF endings, an emoji (one code point, two UTF-16 units) and CJK before the word.
+    write(project / "doc.txt", "Intro line.\r\n🙂 中文 wrold and form disk\r\n", newline="")
+    code, out, _ = run(["--format", "json", "doc.txt"], capsys, project, monkeypatch)
+    assert code == 1
+    items = json.loads(out)
+    assert [sorted(i) for i in items] == [sorted(
+        ["path", "line", "column", "end_line", "end_column", "word", "kind", "confidence", "suggestions"]
+    )] * 2
+    first, second = items
+    assert (first["line"], first["column"], first["end_line"], first["end_column"]) == (2, 6, 2, 11)
+    assert first["word"] == "wrold" and first["kind"] == "nonword"
+    assert first["suggestions"][0] == {"text": "world", "probability": 0.9}
+    assert second["kind"] == "realword" and second["word"] == "form" and second["column"] == 16
+    assert 0 <= second["confidence"] <= 1
+
+
+def test_folder_walk_honours_gitignore_and_config_globs(project, capsys, monkeypatch):
+    write(project / ".gitignore", "build/\n*.log.md\n")
+    write(project / "calami.toml", 'exclude = ["vendor"]\ninclude = ["*.md", "docs/**"]\n')
+    write(project / "README.md", "teh readme\n")
+    write(project / "build" / "out.md", "teh built\n")
+    write(project / "x.log.md", "teh log\n")
+    write(project / "vendor" / "lib.md", "teh vendored\n")
+    write(project / "docs" / "guide.rst", "teh guide\n")
+    write(project / "notes.txt", "teh not included\n")
+    code, out, _ = run(["--format", "json", "."], capsys, project, monkeypatch)
+    assert code == 1
+    assert sorted(i["path"] for i in json.loads(out)) == ["README.md", "docs/guide.rst"]
+
+
+def test_project_words_and_thresholds_reach_the_checker(project, capsys, monkeypatch):
+    write(project / "calami-words.txt", "# jargon\nwrold\n")
+    write(project / "calami.toml", "[thresholds]\nhint = 0.6\nconfident = 0.9\n")
+    write(project / "a.txt", "Wrold and teh.\n")
+    code, out, _ = run(["--format", "json", "--variant", "en-GB", "a.txt"], capsys, project, monkeypatch)
+    assert [i["word"] for i in json.loads(out)] == ["teh"]
+    assert BUILT == [{"root": project, "variant": "en-GB", "thresholds": Thresholds(0.6, 0.9)}]
+
+
+def test_bad_config_value_exits_2_naming_file_and_line(project, capsys, monkeypatch):
+    write(project / "calami.toml", '# settings\nvariant = "en-US"\nmax-suggestions = "many"\n')
+    write(project / "a.txt", "teh\n")
+    code, out, err = run(["a.txt"], capsys, project, monkeypatch)
+    assert code == 2 and out == ""
+    assert f"{project / 'calami.toml'}:3: max-suggestions must be" in err
+
+
+def test_toml_syntax_error_exits_2_naming_file_and_line(project, capsys, monkeypatch):
+    write(project / "calami.toml", 'variant = "en-US"\n\nword-lists = [\n  "a.txt"\n  "b.txt"]\n')
+    write(project / "a.txt", "teh\n")
+    code, _, err = run(["a.txt"], capsys, project, monkeypatch)
+    assert code == 2
+    assert f"{project / 'calami.toml'}:5: invalid TOML" in err
+
+
+def test_ignore_patterns_cut_text_out(project, capsys, monkeypatch):
+    write(project / "calami.toml", "ignore-patterns = ['TODO\\(teh\\)', '^>.*$']\n")
+    write(project / "a.txt", "TODO(teh) fine\n> quoted teh\nreal teh\n")
+    code, out, _ = run(["--format", "json", "a.txt"], capsys, project, monkeypatch)
+    assert [(i["line"], i["word"]) for i in json.loads(out)] == [(3, "teh")]
+
+
+def test_catastrophic_ignore_pattern_is_reported_and_checking_goes_on(project, capsys, monkeypatch):
+    # (a|aa)+$ backtracks exponentially on a long run of a's followed by another letter.
+    write(project / "calami.toml", "ignore-patterns = [\n  'teh',\n  '(a|aa)+$',\n]\n")
+    write(project / "a.txt", "a" * 60 + "! wrold\n")
+    monkeypatch.setattr("calami.vocab.ignore.DEFAULT_TIMEOUT", 0.2)
+    monkeypatch.setattr("calami.vocab.project.DEFAULT_TIMEOUT", 0.2)
+    code, out, err = run(["--format", "json", "a.txt"], capsys, project, monkeypatch)
+    assert code == 1
+    assert [i["word"] for i in json.loads(out)] == ["wrold"]
+    assert f"{project / 'calami.toml'}:3: ignore pattern '(a|aa)+$' took longer than" in err
+
+
+def test_binary_and_oversized_files_are_skipped_with_a_note(project, capsys, monkeypatch):
+    (project / "blob.txt").write_bytes(b"teh\x00\x01\x02")
+    write(project / "big.txt", "teh " * 100)
+    write(project / "small.txt", "teh\n")
+    code, out, err = run(["--max-bytes", "100", "blob.txt", "big.txt", "small.txt"], capsys, project, monkeypatch)
+    assert code == 1
+    assert "calami: note: blob.txt: skipped (binary file)" in err
+    assert "calami: note: big.txt: skipped (larger than 100 bytes (400 bytes))" in err
+    assert out.splitlines()[-1] == "1 finding (1 unknown) in 1 file; 2 files skipped, 1 file checked." or \
+        out.splitlines()[-1] == "1 finding (1 unknown) in 1 file; 1 file checked, 2 files skipped."
+
+
+def test_colour_only_when_asked_or_on_a_terminal(project, capsys, monkeypatch):
+    write(project / "a.txt", "teh\n")
+    _, out, _ = run(["--color", "always", "a.txt"], capsys, project, monkeypatch)
+    assert "\x1b[31m" in out
+    monkeypatch.setenv("NO_COLOR", "1")
+    _, out, _ = run(["a.txt"], capsys, project, monkeypatch)
+    assert "\x1b[" not in out
+
+
+def test_several_jobs_give_the_same_report(project, capsys, monkeypatch):
+    for n in range(12):
+        write(project / "docs" / f"f{n:02}.md", f"Page {n}.\n\nteh page and form disk {n}\n")
+    _, one, _ = run(["--format", "json", "docs"], capsys, project, monkeypatch)
+    code, two, _ = run(["--format", "json", "--jobs", "2", "docs"], capsys, project, monkeypatch)
+    assert code == 1
+    assert json.loads(one) == json.loads(two)
+    assert len(json.loads(two)) == 24
+
+
+def test_usage_errors_exit_2(project, capsys, monkeypatch):
+    write(project / "a.txt", "fine\n")
+    assert run(["--jobs", "0", "a.txt"], capsys, project, monkeypatch)[0] == 2
+    assert run(["--kind", "klingon", "a.txt"], capsys, project, monkeypatch)[0] == 2
+    with pytest.raises(SystemExit) as exc:
+        cli.main(["check", "--format", "xml", "a.txt"])
+    assert exc.value.code == 2
