@@ -1,0 +1,163 @@
+"""Findings -> LSP diagnostics, and when to compute them.
+
+Typing fast must not queue work: each edit cancels the document's pending
+check, waits ``debounceMs`` and then checks the newest text on one worker
+thread (so the event loop keeps answering).  A check whose document moved on
+stops at the next block and is never published: every result carries the
+version it was computed for and is dropped if that is no longer current.
+"""
+
+from __future__ import annotations
+
+import asyncio
+import logging
+from concurrent.futures import ThreadPoolExecutor
+from typing import Any, Callable
+
+from lsprotocol import types
+
+from calami.findings import NONWORD, Finding
+from calami.lsp.documents import MAX_CHECKED_CHARS, Document, prose_spans
+from calami.lsp.findings_cache import Cancelled
+from calami.lsp.settings import Settings
+from calami.text.spans import subtract
+
+log = logging.getLogger("calami.lsp")
+
+SOURCE = "calami"
+CODES = {NONWORD: "calami.nonword", "realword": "calami.realword"}
+
+
+def message(finding: Finding) -> str:
+    """One line naming the word and the best fix (our own wording)."""
+    best = finding.best
+    if finding.kind == NONWORD:
+        text = f"'{finding.word}' looks misspelt"
+    else:
+        text = f"'{finding.word}' is unlikely in this context"
+    return f"{text}; best fix: '{best}'" if best else text
+
+
+def to_diagnostic(finding: Finding, doc: Document, settings: Settings) -> types.Diagnostic:
+    return types.Diagnostic(
+        range=doc.positions.range(finding.start, finding.end),
+        message=message(finding),
+        severity=settings.severity(finding.kind),
+        code=CODES.get(finding.kind, f"calami.{finding.kind}"),
+        source=SOURCE,
+        data={
+            "word": finding.word,
+            "kind": finding.kind,
+            "suggestions": [s.text for s in finding.suggestions[: settings.max_suggestions]],
+            "left": finding.left,
+            "right": finding.right,
+        },
+    )
+
+
+def compute(doc: Document, text: str, version: int, checker: Any, settings: Settings, project: Any = None) -> list[Finding]:
+    """Findings for one snapshot of a document (runs on the worker thread)."""
+    if "\x00" in text:
+        return []
+    checked = text
+    if len(text) > MAX_CHECKED_CHARS:
+        checked = text[:MAX_CHECKED_CHARS]
+    spans = prose_spans(checked, doc.kind, settings.check_strings)
+    if project is not None and getattr(project, "ignore_patterns", None):
+        holes, warnings = project.ignore_holes(checked)
+        for warning in warnings:
+            log.warning("calami: %s", warning)
+        spans = subtract(spans, holes)
+    findings = doc.cache.findings(checked, spans, checker, cancelled=lambda: doc.version != version)
+    return [f for f in findings if f.word not in doc.ignored and f.word.lower() not in doc.ignored]
+
+
+class Scheduler:
+    """Debounced, cancellable, version-checked diagnostics for open documents."""
+
+    def __init__(
+        self,
+        checker_for: Callable[[Document], Any],
+        settings_for: Callable[[Document], Settings],
+        publish: Callable[[Document, list[types.Diagnostic]], None],
+        project_for: Callable[[Document], Any] = lambda doc: None,
+    ) -> None:
+        self.project_for = project_for
+        self.checker_for = checker_for
+        self.settings_for = settings_for
+        self.publish = publish
+        self.executor = ThreadPoolExecutor(max_workers=1, thread_name_prefix="calami-check")
+        self.pending: dict[str, asyncio.Task[Any]] = {}
+        self.results: dict[str, tuple[int, list[types.Diagnostic]]] = {}
+        self.findings: dict[str, tuple[int, list[Finding]]] = {}
+        self._warned: set[tuple[str, str]] = set()
+
+    def schedule(self, doc: Document, delay_ms: int | None = None) -> None:
+        """Check ``doc`` after the debounce delay, replacing any pending check."""
+        self.cancel(doc.uri)
+        settings = self.settings_for(doc)
+        delay = settings.debounce_ms if delay_ms is None else delay_ms
+        self.pending[doc.uri] = asyncio.ensure_future(self._run(doc, delay / 1000.0, push=True))
+
+    def cancel(self, uri: str) -> None:
+        task = self.pending.pop(uri, None)
+        if task is not None and not task.done():
+            task.cancel()
+
+    def forget(self, uri: str) -> None:
+        self.cancel(uri)
+        self.results.pop(uri, None)
+        self.findings.pop(uri, None)
+
+    async def current(self, doc: Document) -> list[types.Diagnostic] | None:
+        """Diagnostics for the document's current version (pull requests)."""
+        while True:
+            cached = self.results.get(doc.uri)
+            if cached and cached[0] == doc.version:
+                return cached[1]
+            version = doc.version
+            diagnostics = await self._check(doc)
+            if diagnostics is not None and doc.version == version:
+                return diagnostics
+
+    async def _run(self, doc: Document, delay: float, push: bool) -> None:
+        try:
+            if delay > 0:
+                await asyncio.sleep(delay)
+            diagnostics = await self._check(doc)
+            if diagnostics is not None and push:
+                self.publish(doc, diagnostics)
+        except asyncio.CancelledError:
+            raise
+        except Exception:  # keep serving; the traceback goes to stderr only
+            log.exception("calami: checking %s failed", doc.uri)
+
+    async def _check(self, doc: Document) -> list[types.Diagnostic] | None:
+        version, text = doc.version, doc.text
+        self._warn_once(doc, text)
+        checker = self.checker_for(doc)
+        settings = self.settings_for(doc)
+        project = self.project_for(doc)
+        loop = asyncio.get_running_loop()
+        try:
+            findings = await loop.run_in_executor(self.executor, compute, doc, text, version, checker, settings, project)
+        except Cancelled:
+            return None
+        if doc.version != version:
+            return None  # an edit arrived meanwhile: never publish old findings
+        diagnostics = [to_diagnostic(f, doc, settings) for f in findings]
+        self.findings[doc.uri] = (version, findings)
+        self.results[doc.uri] = (version, diagnostics)
+        return diagnostics
+
+    def _warn_once(self, doc: Document, text: str) -> None:
+        if "\x00" in text:
+            if (doc.uri, "binary") not in self._warned:
+                self._warned.add((doc.uri, "binary"))
+                log.warning("calami: %s contains NUL bytes (binary content); not checking it", doc.uri)
+        elif len(text) > MAX_CHECKED_CHARS and (doc.uri, "large") not in self._warned:
+            self._warned.add((doc.uri, "large"))
+            log.warning(
+                "calami: %s has %d characters; checking only the first %d to stay responsive",
+                doc.uri, len(text), MAX_CHECKED_CHARS,
+            )

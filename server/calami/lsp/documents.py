@@ -1,0 +1,124 @@
+"""Open documents: text kept in sync with the editor, and their prose spans.
+
+The server keeps its own copy of each document (instead of pygls' workspace)
+so it can validate every incremental change: a change with an impossible
+range is refused as a whole, logged, and the previous text kept, rather than
+silently corrupting the copy the findings are computed from.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass, field
+from pathlib import Path
+from urllib.parse import unquote, urlparse
+
+from lsprotocol import types
+
+from calami.lsp.findings_cache import FindingsCache
+from calami.lsp.positions import UTF16, PositionMap
+from calami.text.formats import ExtractOptions, detect_kind, extract
+from calami.text.spans import Span
+
+# Prose checked per document.  A bigger document is checked up to here and
+# the log says so: the server must answer quickly whatever it is sent.
+MAX_CHECKED_CHARS = 500_000
+
+# LSP language identifiers -> calami document kinds (the extractor's names).
+LANGUAGE_KINDS = {
+    "markdown": "markdown",
+    "restructuredtext": "rst",
+    "latex": "latex",
+    "tex": "latex",
+    "plaintext": "plain",
+    "git-commit": "commit",
+    "html": "html",
+    "python": "python",
+    "javascript": "javascript",
+    "javascriptreact": "javascript",
+    "typescript": "typescript",
+    "typescriptreact": "typescript",
+    "rust": "rust",
+    "go": "go",
+    "c": "c",
+    "cpp": "cpp",
+    "java": "java",
+    "shellscript": "shell",
+    "yaml": "yaml",
+    "toml": "toml",
+}
+
+
+class ChangeError(ValueError):
+    """An incremental change that does not fit the document."""
+
+
+def uri_to_path(uri: str) -> Path | None:
+    """Filesystem path of a file: URI, None for other schemes (untitled:, ...)."""
+    parsed = urlparse(uri)
+    if parsed.scheme != "file":
+        return None
+    return Path(unquote(parsed.path))
+
+
+def document_kind(language_id: str, uri: str, text: str = "") -> str:
+    """The extractor kind: from the editor's language id, else from the file name."""
+    kind = LANGUAGE_KINDS.get((language_id or "").lower())
+    if kind:
+        return kind
+    path = uri_to_path(uri)
+    first_line = text[: text.find("\n")] if "\n" in text[:200] else text[:200]
+    return detect_kind(str(path) if path else uri, first_line) or "plain"
+
+
+def prose_spans(text: str, kind: str, check_strings: bool = False) -> list[Span]:
+    """Prose spans of ``text`` (already capped by the caller)."""
+    return list(extract(text, kind, ExtractOptions(strings=check_strings)))
+
+
+@dataclass
+class Document:
+    uri: str
+    language_id: str
+    version: int
+    text: str
+    encoding: str = UTF16
+    kind: str = "plain"
+    ignored: set[str] = field(default_factory=set)  # "ignore in this document"
+    cache: FindingsCache = field(default_factory=FindingsCache)
+    _positions: PositionMap | None = None
+
+    @property
+    def positions(self) -> PositionMap:
+        if self._positions is None or self._positions.text is not self.text:
+            self._positions = PositionMap(self.text, self.encoding)
+        return self._positions
+
+    @property
+    def path(self) -> Path | None:
+        return uri_to_path(self.uri)
+
+    @property
+    def is_binary(self) -> bool:
+        return "\x00" in self.text
+
+    def apply(self, changes: list[types.TextDocumentContentChangeEvent], version: int) -> None:
+        """Apply all changes of one didChange, or none of them (ChangeError)."""
+        text = self.text
+        for change in changes:
+            if isinstance(change, types.TextDocumentContentChangeWholeDocument) or getattr(change, "range", None) is None:
+                text = change.text
+                continue
+            positions = PositionMap(text, self.encoding)
+            rng = change.range
+            try:
+                start = positions.offset(rng.start)
+                end = positions.offset(rng.end)
+            except ValueError as exc:
+                raise ChangeError(str(exc)) from None
+            if end < start:
+                raise ChangeError(
+                    f"range end {rng.end.line}:{rng.end.character} is before start {rng.start.line}:{rng.start.character}"
+                )
+            text = text[:start] + change.text + text[end:]
+        self.text = text
+        self.version = version
