@@ -1,16 +1,37 @@
 """The decision: which words to flag, and the ranked fixes for each.
 
-(Engine implementation in progress; the public surface below is the contract
-used by the language server and ``calami check``.)
+Every checkable word is a hypothesis test (noisy channel, Kernighan, Church
+& Gale 1990; real-word form after Mays, Damerau & Mercer 1991):
+
+    H0:  the word is meant as typed     alpha * P(w | left) * P(right | w)
+    Hc:  the writer meant candidate c   (1 - alpha) * Q(w | c) * P(c | left) * P(right | c)
+
+For a word outside the lexicon, H0 uses the language model's unknown-word
+probability and a constant prior that such a spelling is meant
+(``oov_log_prior``).  The posterior that the word is wrong is
+sum(Hc) / (H0 + sum(Hc)); a hint needs it above the hint threshold, and a
+fix is "confident" when its own posterior passes the confident threshold.
+
+Adaptations (project words, the user's profile) say which words are fine
+and which fixes the user accepted before; they shift H0 and Hc.
 """
 
 from __future__ import annotations
 
-from typing import Protocol, Sequence, Mapping
+import math
+from collections import OrderedDict
+from typing import Mapping, Protocol, Sequence
 
-from calami.findings import Finding, Suggestion, Thresholds
+from calami.findings import NONWORD, REALWORD, Finding, Suggestion, Thresholds
+from calami.model import Model
+from calami.model.confusables import confusion_pairs
+from calami.model.lexicon import LOWER, restore_case
+from calami.model.phonetic import sound_key
 from calami.text.spans import Span
-from calami.text.tokens import Token
+from calami.text.tokens import BOS, CAPS, EOS, SKIP, UNK, Token, lm_units, sentences, tokenize
+
+MIN_NONWORD_LENGTH = 3  # shorter unknown tokens are abbreviations far more often than typos
+CONFUSABLE_Q = 0.02  # floor for Q(w | c) between members of a confusion set
 
 
 class Adaptation(Protocol):
@@ -26,6 +47,23 @@ class Adaptation(Protocol):
         """How many times the user chose to ignore this word."""
 
 
+def _logsumexp(values: Sequence[float]) -> float:
+    top = max(values)
+    return top + math.log(sum(math.exp(v - top) for v in values))
+
+
+class _LRU(OrderedDict):
+    def __init__(self, size: int) -> None:
+        super().__init__()
+        self.size = size
+
+    def put(self, key, value):
+        self[key] = value
+        if len(self) > self.size:
+            self.popitem(last=False)
+        return value
+
+
 class Checker:
     """Scores tokens with the model and the user's/project's adaptations.
 
@@ -35,20 +73,242 @@ class Checker:
 
     def __init__(
         self,
-        model: "object",
+        model: Model,
         *,
         adaptations: Sequence[Adaptation] = (),
         variant: str = "any",
-        thresholds: Thresholds = Thresholds(),
+        thresholds: Thresholds | None = None,
         max_suggestions: int = 5,
     ) -> None:
-        raise NotImplementedError
+        self.model = model
+        self.adaptations = list(adaptations)
+        self.variant = variant
+        p = model.params
+        self.thresholds = thresholds or Thresholds(p.nonword_hint, p.confident)
+        self.realword_hint = max(self.thresholds.hint, p.realword_hint) if thresholds is None else self.thresholds.hint
+        self.max_suggestions = max(1, max_suggestions)
+        self.log_alpha = math.log(p.alpha)
+        self.log_error = math.log(1.0 - p.alpha)
+        ids = model.lexicon.ids
+        self._confusable = {(ids[a], ids[b]) for a, b in confusion_pairs() if a in ids and b in ids}
+        self._q_cache: dict[tuple[int, int], float] = {}
+        self._channel_cache: _LRU = _LRU(20000)
+
+    # ------------------------------------------------------------ front doors
 
     def check(self, text: str, spans: Sequence[Span] | None = None) -> list[Finding]:
-        raise NotImplementedError
+        findings: list[Finding] = []
+        for sent in sentences(tokenize(text, spans)):
+            findings.extend(self.check_sentence(sent))
+        return findings
 
     def check_sentence(self, tokens: Sequence[Token]) -> list[Finding]:
-        raise NotImplementedError
+        units = lm_units(tokens)
+        shouting = sum(1 for t in tokens if t.kind == CAPS) >= 3 and not any(
+            t.kind != SKIP and t.kind != CAPS for t in tokens)
+        ids = [self.model.lm_id(u) for u in units]
+        out: list[Finding] = []
+        for i, tok in enumerate(tokens):
+            if tok.kind == SKIP or (tok.kind == CAPS and not shouting):
+                continue
+            left = ids[i - 1] if i > 0 else self.model.bos
+            right = ids[i + 1] if i + 1 < len(ids) else self.model.eos
+            left_text = units[i - 1] if i > 0 else BOS
+            right_text = units[i + 1] if i + 1 < len(units) else EOS
+            finding = self._check_word(tok, left, right, sentence_start=(i == 0))
+            if finding is not None:
+                out.append(Finding(tok.start, tok.end, tok.text, finding[0], finding[1], finding[2], finding[3],
+                                   left_text, right_text))
+        return out
 
     def suggest(self, word: str, left: str = "", right: str = "", limit: int = 5) -> list[Suggestion]:
-        raise NotImplementedError
+        """Ranked intended words for ``word`` in context; the word itself may come first."""
+        left_id = self._context_id(left, last=True)
+        right_id = self._context_id(right, last=False)
+        w = word.replace("’", "'").lower()
+        look = self.model.lexicon.lookup(word, self.variant)
+        hyps = self._candidate_hypotheses(w, left_id, right_id, word, every_candidate=True)
+        h0 = self._h0_known(look.key_id, left_id, right_id) if look.accepted else self._h0_unknown(
+            w, left_id, right_id, word, capitalised_inside=False)
+        ranked = self._rank(word, hyps, h0, include_self=look.accepted, limit=limit)
+        return [Suggestion(text, prob) for text, prob in ranked]
+
+    # ---------------------------------------------------------------- words
+
+    def _accepted_by_adaptation(self, word: str) -> bool:
+        return any(a.accepts(word) for a in self.adaptations)
+
+    def _check_word(self, tok: Token, left: int, right: int, sentence_start: bool):
+        word = tok.norm
+        core = word[:-2] if word.endswith("'s") else word.rstrip("'")
+        if not core or self._accepted_by_adaptation(word) or self._accepted_by_adaptation(core):
+            return None
+        lexicon = self.model.lexicon
+        look = lexicon.lookup(word, self.variant)
+        w = core.lower()
+        if look.accepted:
+            return self._check_realword(word, look.key_id, left, right)
+        if look.key_id is not None and not look.other_variant:
+            return None  # a listed word in an unusual case (e.g. "english"): not a spelling matter
+        if not look.other_variant and len(core) < MIN_NONWORD_LENGTH:
+            return None
+        capitalised_inside = (not sentence_start) and core[:1].isupper() and not core.isupper()
+        hyps = self._candidate_hypotheses(w, left, right, core, every_candidate=False)
+        if look.other_variant and look.key_id is not None:
+            h0 = self._h0_known(look.key_id, left, right) + math.log(1e-3)
+        else:
+            h0 = self._h0_unknown(w, left, right, core, capitalised_inside)
+        h0 += math.log1p(4.0 * self._ignored(word))
+        if not hyps:
+            return None
+        total = _logsumexp([h0] + [h for _, h in hyps])
+        p_wrong = 1.0 - math.exp(h0 - total)
+        if p_wrong < self.thresholds.hint:
+            return None
+        suggestions = self._suggestions(core, hyps, total, word)
+        confident = bool(suggestions) and suggestions[0].probability >= self.thresholds.confident
+        return NONWORD, p_wrong, tuple(suggestions), confident
+
+    def _check_realword(self, word: str, kid: int, left: int, right: int):
+        model = self.model
+        nbrs = model.realword_neighbours(kid)
+        if not nbrs or (left == model.bos and right == model.eos):
+            return None
+        lexicon = model.lexicon
+        h0 = self._h0_known(kid, left, right) + math.log1p(4.0 * self._ignored(word))
+        boosts = self._correction_boosts(word)
+        hyps = []
+        for c in nbrs:
+            if not lexicon.flags[c] & LOWER or not lexicon.is_variant(c, self.variant):
+                continue
+            h = self.log_error + self._q(kid, c) + self._lp(c, left) + self._lp(right, c)
+            h += boosts.get(lexicon.keys[c], 0.0)
+            hyps.append((c, h))
+        if not hyps:
+            return None
+        total = _logsumexp([h0] + [h for _, h in hyps])
+        p_wrong = 1.0 - math.exp(h0 - total)
+        if p_wrong < self.realword_hint:
+            return None
+        suggestions = self._suggestions(word.lower(), hyps, total, word)
+        confident = bool(suggestions) and suggestions[0].probability >= self.thresholds.confident
+        return REALWORD, p_wrong, tuple(suggestions), confident
+
+    # ------------------------------------------------------------ hypotheses
+
+    def _h0_known(self, kid: int | None, left: int, right: int) -> float:
+        if kid is None:
+            return -1e9
+        return self.log_alpha + self._lp(kid, left) + self._lp(right, kid)
+
+    def _h0_unknown(self, w: str, left: int, right: int, typed: str, capitalised_inside: bool) -> float:
+        model = self.model
+        h0 = self.log_alpha + model.params.oov_log_prior + self._lp(model.unk, left) + self._lp(right, model.unk)
+        if capitalised_inside:
+            h0 += 4.0  # probably a name: leave it alone unless clearly a typo
+        return h0
+
+    def _candidate_hypotheses(self, w: str, left: int, right: int, typed: str, every_candidate: bool):
+        boosts = self._correction_boosts(typed)
+        hyps = []
+        for c, lq in self._channel_candidates(w, every_candidate):
+            h = self.log_error + lq + self._lp(c, left) + self._lp(right, c)
+            h += boosts.get(self.model.lexicon.keys[c], 0.0)
+            hyps.append((c, h))
+        # Fixes the user accepted before that the index does not reach.
+        lexicon = self.model.lexicon
+        for chosen, bonus in boosts.items():
+            kid = lexicon.ids.get(chosen.lower())
+            if kid is not None and all(kid != c for c, _ in hyps):
+                lq = self.model.channel.log_q(w, chosen.lower())
+                hyps.append((kid, self.log_error + lq + self._lp(kid, left) + self._lp(right, kid) + bonus))
+        return hyps
+
+    def _channel_candidates(self, w: str, every_candidate: bool) -> list[tuple[int, float]]:
+        """Candidate key ids with log Q(w | c); cached per typed word."""
+        key = (w, every_candidate)
+        cached = self._channel_cache.get(key)
+        if cached is not None:
+            return cached
+        model = self.model
+        lexicon, channel, prior = model.lexicon, model.channel, model.lm.prior
+        found = model.candidates.within(w, 2)
+        found.pop(lexicon.ids.get(w, -1), None)
+        for c in model.sound_index.get(sound_key(w), ()):
+            if c not in found and abs(len(lexicon.keys[c]) - len(w)) <= 3:
+                found[c] = 3
+        wanted = [c for c in found if lexicon.is_variant(c, self.variant)]
+        limit = model.params.max_nonword_candidates
+        if not every_candidate and len(wanted) > limit:
+            close = [c for c in wanted if found[c] <= 1]
+            far = sorted((c for c in wanted if found[c] > 1), key=lambda c: -prior[c])
+            wanted = close + far[: max(0, limit - len(close))]
+        out = [(c, channel.log_q(w, lexicon.keys[c])) for c in wanted]
+        return self._channel_cache.put(key, out)
+
+    def _q(self, typed_id: int, intended_id: int) -> float:
+        """log P(typed | intended, error) between two lexicon words (cached)."""
+        key = (typed_id, intended_id)
+        q = self._q_cache.get(key)
+        if q is None:
+            keys = self.model.lexicon.keys
+            q = self.model.channel.log_q(keys[typed_id], keys[intended_id])
+            if key in self._confusable:
+                q = max(q, math.log(CONFUSABLE_Q))
+            self._q_cache[key] = q
+        return q
+
+    def _lp(self, w: int, v: int) -> float:
+        p = self.model.lm.prob(w, v)
+        return math.log(p) if p > 0 else -50.0
+
+    def _context_id(self, text: str, last: bool) -> int:
+        toks = [t for t in tokenize(text)] if text else []
+        if not toks:
+            return self.model.bos if last else self.model.eos
+        units = lm_units([toks[-1] if last else toks[0]])
+        return self.model.lm_id(units[0])
+
+    # ------------------------------------------------------------ adaptation
+
+    def _correction_boosts(self, typed: str) -> dict[str, float]:
+        boosts: dict[str, float] = {}
+        for a in self.adaptations:
+            for chosen, count in a.corrections(typed).items():
+                if count > 0:
+                    boosts[chosen.lower()] = boosts.get(chosen.lower(), 0.0) + math.log1p(3.0 * count) * 2.0
+        return boosts
+
+    def _ignored(self, word: str) -> int:
+        return sum(a.ignored(word) for a in self.adaptations)
+
+    # --------------------------------------------------------------- ranking
+
+    def _suggestions(self, typed_lower: str, hyps, total: float, typed: str) -> list[Suggestion]:
+        keys = self.model.lexicon.keys
+        merged: dict[str, float] = {}
+        for c, h in sorted(hyps, key=lambda x: -x[1]):
+            text = restore_case(typed, keys[c], self.model.lexicon)
+            if text not in merged:
+                merged[text] = math.exp(h - total)
+            if len(merged) >= self.max_suggestions:
+                break
+        return [Suggestion(t, p) for t, p in merged.items()]
+
+    def _rank(self, typed: str, hyps, h0: float, include_self: bool, limit: int) -> list[tuple[str, float]]:
+        total = _logsumexp([h0] + [h for _, h in hyps]) if hyps else h0
+        keys = self.model.lexicon.keys
+        scored = [(restore_case(typed, keys[c], self.model.lexicon), h) for c, h in hyps]
+        if include_self:
+            scored.append((typed, h0))
+        scored.sort(key=lambda x: -x[1])
+        out: list[tuple[str, float]] = []
+        seen: set[str] = set()
+        for text, h in scored:
+            if text in seen:
+                continue
+            seen.add(text)
+            out.append((text, math.exp(h - total)))
+            if len(out) >= limit:
+                break
+        return out

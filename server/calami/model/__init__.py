@@ -1,1 +1,178 @@
-"""calami.model."""
+"""The statistical model: lexicon, language model, error model, indexes.
+
+Loaded once, read-only.  ``load()`` finds the shipped model unless told
+otherwise; ``Model.from_parts`` builds one in memory (tests, the builder).
+"""
+
+from __future__ import annotations
+
+import os
+import sys
+from array import array
+from dataclasses import dataclass, field
+from pathlib import Path
+from typing import Any
+
+from calami.model import store
+from calami.model.candidates import CandidateIndex
+from calami.model.channel import ChannelModel
+from calami.model.language import LanguageModel
+from calami.model.lexicon import Lexicon
+from calami.text.tokens import BOS, EOS, UNK
+
+MODEL_FILENAME = "calami-en.msgpack"
+
+
+@dataclass
+class Params:
+    """Decision constants tuned on held-out data (see models/README.md)."""
+
+    alpha: float = 0.995  # P(no error) for a word that is in the lexicon
+    realword_hint: float = 0.5  # posterior needed to flag a real word
+    nonword_hint: float = 0.5
+    confident: float = 0.95
+    oov_log_prior: float = -16.0  # log P(an unknown word is meant as typed)
+    max_nonword_candidates: int = 60
+
+    def to_dict(self) -> dict[str, Any]:
+        return dict(self.__dict__)
+
+    @classmethod
+    def from_dict(cls, d: dict[str, Any]) -> "Params":
+        known = {k: v for k, v in d.items() if k in cls.__dataclass_fields__}
+        return cls(**known)
+
+
+@dataclass
+class Model:
+    lexicon: Lexicon
+    lm: LanguageModel
+    channel: ChannelModel
+    candidates: CandidateIndex
+    neighbours_start: array  # 'I', per key id: real-word neighbours within one edit
+    neighbours: array  # 'I'
+    sound_index: dict[str, tuple[int, ...]]
+    params: Params = field(default_factory=Params)
+    header: dict[str, Any] = field(default_factory=dict)
+
+    @property
+    def bos(self) -> int:
+        return len(self.lexicon)
+
+    @property
+    def eos(self) -> int:
+        return len(self.lexicon) + 1
+
+    @property
+    def unk(self) -> int:
+        return len(self.lexicon) + 2
+
+    def lm_id(self, unit: str) -> int:
+        """Language-model id of a lower-case word or special unit."""
+        if unit == BOS:
+            return self.bos
+        if unit == EOS:
+            return self.eos
+        kid = self.lexicon.ids.get(unit)
+        return self.unk if kid is None else kid
+
+    def realword_neighbours(self, key_id: int) -> array:
+        return self.neighbours[self.neighbours_start[key_id] : self.neighbours_start[key_id + 1]]
+
+    # -- persistence -----------------------------------------------------------
+
+    def to_payload(self) -> dict[str, Any]:
+        lm = self.lm
+        sound_keys = sorted(self.sound_index)
+        sound_start = array("I", [0])
+        sound_ids = array("I")
+        for k in sound_keys:
+            sound_ids.extend(self.sound_index[k])
+            sound_start.append(len(sound_ids))
+        return {
+            "lexicon": {
+                "keys": store.pack_strings(self.lexicon.keys),
+                "flags": store.pack_bytes(self.lexicon.flags),
+                "cased": store.pack_strings(sorted(f for forms in self.lexicon.cased.values() for f in forms)),
+            },
+            "lm": {
+                "vocab_size": lm.vocab_size, "discount": lm.discount, "lam": lm.lam, "cont_total": lm.cont_total,
+                **{name: store.pack_array(getattr(lm, name)) for name in
+                   ("ctx_count", "gamma", "cont", "prior", "row_start", "col", "cnt")},
+            },
+            "channel": self.channel.to_dict(),
+            "candidates": {
+                "bucket_bits": self.candidates.bucket_bits,
+                "offsets": store.pack_array(array("I", self.candidates.offsets)),
+                "ids": store.pack_bytes(self.candidates.ids),
+            },
+            "realword": {"start": store.pack_array(self.neighbours_start), "ids": store.pack_array(self.neighbours)},
+            "sound": {"keys": store.pack_strings(sound_keys), "start": store.pack_array(sound_start), "ids": store.pack_array(sound_ids)},
+            "params": self.params.to_dict(),
+        }
+
+    @classmethod
+    def from_payload(cls, payload: dict[str, Any], header: dict[str, Any] | None = None) -> "Model":
+        lx = payload["lexicon"]
+        keys = store.unpack_strings(lx["keys"])
+        lexicon = Lexicon(keys, store.unpack_bytes(lx["flags"]), store.unpack_strings(lx["cased"]))
+        l = payload["lm"]
+        lm = LanguageModel(
+            vocab_size=l["vocab_size"], discount=l["discount"], lam=l["lam"], cont_total=l["cont_total"],
+            **{name: store.unpack_array(l[name]) for name in ("ctx_count", "gamma", "cont", "prior", "row_start", "col", "cnt")},
+        )
+        c = payload["candidates"]
+        cand = CandidateIndex(keys, c["bucket_bits"], store.unpack_array(c["offsets"]), store.unpack_bytes(c["ids"]))
+        s = payload["sound"]
+        sound_keys = store.unpack_strings(s["keys"])
+        sound_start = store.unpack_array(s["start"])
+        sound_ids = store.unpack_array(s["ids"])
+        sound_index = {k: tuple(sound_ids[sound_start[i] : sound_start[i + 1]]) for i, k in enumerate(sound_keys)}
+        rw = payload["realword"]
+        if lm.vocab_size != len(keys) + 3:
+            raise ValueError("language model and lexicon disagree")
+        return cls(
+            lexicon=lexicon, lm=lm, channel=ChannelModel.from_dict(payload["channel"]), candidates=cand,
+            neighbours_start=store.unpack_array(rw["start"]), neighbours=store.unpack_array(rw["ids"]),
+            sound_index=sound_index, params=Params.from_dict(payload.get("params", {})), header=header or {},
+        )
+
+    def save(self, path: Path, header: dict[str, Any]) -> int:
+        return store.write_model(path, header, self.to_payload())
+
+
+def default_model_path() -> Path:
+    """$CALAMI_MODEL, the repository's models/ folder, or the installed share/ copy."""
+    env = os.environ.get("CALAMI_MODEL")
+    if env:
+        return Path(env).expanduser()
+    here = Path(__file__).resolve()
+    repo_copy = here.parents[3] / "models" / MODEL_FILENAME
+    if repo_copy.exists():
+        return repo_copy
+    for prefix in (sys.prefix, sys.base_prefix):
+        shared = Path(prefix) / "share" / "calami" / MODEL_FILENAME
+        if shared.exists():
+            return shared
+    return repo_copy
+
+
+_CACHE: dict[Path, Model] = {}
+
+
+def load(path: str | os.PathLike[str] | None = None) -> Model:
+    """Load (once per process) and validate a model file; raises ModelError."""
+    from calami.errors import ModelError
+
+    p = Path(path).expanduser() if path else default_model_path()
+    p = p.resolve()
+    cached = _CACHE.get(p)
+    if cached is not None:
+        return cached
+    header, payload = store.read_model(p)
+    try:
+        model = Model.from_payload(payload, header)
+    except (KeyError, TypeError, ValueError) as exc:
+        raise ModelError(f"model file {p} is corrupt or incomplete ({exc.__class__.__name__}: {exc})") from None
+    _CACHE[p] = model
+    return model

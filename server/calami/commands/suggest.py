@@ -1,0 +1,58 @@
+"""``calami suggest``: ranked corrections for words read from stdin.
+
+Input, one item per line: ``WORD`` or ``LEFT<TAB>WORD<TAB>RIGHT`` (the text
+around the word on its line).  Output: one JSON object per line,
+``{"word": ..., "suggestions": [{"text": ..., "probability": ...}, ...]}``
+best first.
+"""
+
+from __future__ import annotations
+
+import argparse
+import json
+import sys
+
+
+def register(sub: argparse._SubParsersAction) -> None:
+    p = sub.add_parser("suggest", help="rank corrections for words read from standard input")
+    p.add_argument("--limit", type=int, default=5, help="suggestions per word (default 5)")
+    p.add_argument("--variant", choices=["any", "en-US", "en-GB"], default="any")
+    p.add_argument("--model", help="model file (default: the shipped model)")
+    p.set_defaults(run=run)
+
+
+def parse_item(line: str) -> tuple[str, str, str] | None:
+    """(left, word, right) from one input line, or None for a blank/malformed line."""
+    line = line.rstrip("\r\n")
+    parts = line.split("\t")
+    if len(parts) == 1:
+        word = parts[0].strip()
+        return ("", word, "") if word else None
+    if len(parts) == 3 and parts[1].strip():
+        return parts[0], parts[1].strip(), parts[2]
+    return None
+
+
+def run(args: argparse.Namespace) -> int:
+    from calami.checker import Checker
+    from calami.errors import CalamiError
+    from calami.model import load
+
+    if args.limit < 1:
+        raise CalamiError("--limit must be at least 1")
+    checker = Checker(load(args.model), variant=args.variant, max_suggestions=args.limit)
+    out = sys.stdout
+    status = 0
+    for number, line in enumerate(sys.stdin, 1):
+        item = parse_item(line)
+        if item is None:
+            if line.strip():
+                print(f"calami: line {number}: expected WORD or LEFT<TAB>WORD<TAB>RIGHT", file=sys.stderr)
+                status = 2
+            continue
+        left, word, right = item
+        ranked = checker.suggest(word, left, right, limit=args.limit)
+        record = {"word": word, "suggestions": [{"text": s.text, "probability": round(s.probability, 6)} for s in ranked]}
+        out.write(json.dumps(record, ensure_ascii=False) + "\n")
+    out.flush()
+    return status

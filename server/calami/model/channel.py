@@ -1,0 +1,323 @@
+"""The error model P(typed | intended), learned from real misspellings.
+
+Edits follow Kernighan, Church & Gale (1990): deletion, insertion,
+substitution and adjacent transposition, each conditioned on the
+neighbouring character ("^" marks the word start):
+
+    del[x, y]   intended "xy" typed "x"     rate = del / count("xy")
+    ins[x, y]   intended "x"  typed "xy"    rate = ins / count("x")
+    sub[t, c]   intended "c"  typed "t"     rate = sub / count("c")
+    trans[x, y] intended "xy" typed "yx"    rate = trans / count("xy")
+
+Counts come from aligning misspelling/correction pairs; the denominators are
+character frequencies of running text (scaled to the size of the pairs'
+correct side) so a rate reads as "errors of this kind per occurrence".
+Smoothing adds ``beta`` pseudo-counts spread by a keyboard-adjacency prior:
+neighbouring keys get ten times the mass of distant ones.
+
+Rates are turned into a distribution over the typos of a given word:
+Q1(t | c) = rate(e) / Z(c), where Z(c) sums the rates of every single edit
+applicable to c.  A typo that needs k edits gets P(k edits) times the
+product of its edits' shares; P(k) is estimated from the training pairs.
+The whole channel is P(t | c) = alpha if t == c else (1 - alpha) * Q(t | c).
+Multi-edit typos are aligned by a weighted edit distance (the cheapest path).
+"""
+
+from __future__ import annotations
+
+import math
+from collections import Counter
+from dataclasses import dataclass, field
+from typing import Iterable, Sequence
+
+START = "^"
+LETTERS = "abcdefghijklmnopqrstuvwxyz'"
+
+# QWERTY rows; adjacency = same or neighbouring row within one column (common practice).
+_ROWS = ["1234567890-", "qwertyuiop", "asdfghjkl;'", "zxcvbnm,."]
+
+
+def _keyboard_neighbours() -> dict[str, set[str]]:
+    pos = {ch: (r, c) for r, row in enumerate(_ROWS) for c, ch in enumerate(row)}
+    out: dict[str, set[str]] = {}
+    for a, (ra, ca) in pos.items():
+        out[a] = {b for b, (rb, cb) in pos.items() if b != a and abs(ra - rb) <= 1 and abs(ca - cb) <= 1 + (rb != ra)}
+    return out
+
+
+KEYBOARD = _keyboard_neighbours()
+
+
+def adjacent(a: str, b: str) -> bool:
+    return b in KEYBOARD.get(a, ())
+
+
+# ---------------------------------------------------------------- alignment
+
+
+def align(typed: str, intended: str) -> list[tuple[str, str, str]] | None:
+    """Unit-cost OSA alignment as a list of edits (kind, x, y), or None if equal.
+
+    Edits use the conventions of the module docstring; x is the context
+    character for del/ins/trans, the typed character for sub.
+    """
+    n, m = len(typed), len(intended)
+    INF = 1 << 30
+    d = [[INF] * (m + 1) for _ in range(n + 1)]
+    for i in range(n + 1):
+        d[i][0] = i
+    for j in range(m + 1):
+        d[0][j] = j
+    for i in range(1, n + 1):
+        for j in range(1, m + 1):
+            cost = 0 if typed[i - 1] == intended[j - 1] else 1
+            best = min(d[i - 1][j] + 1, d[i][j - 1] + 1, d[i - 1][j - 1] + cost)
+            if i > 1 and j > 1 and typed[i - 1] == intended[j - 2] and typed[i - 2] == intended[j - 1]:
+                best = min(best, d[i - 2][j - 2] + 1)
+            d[i][j] = best
+    edits: list[tuple[str, str, str]] = []
+    i, j = n, m
+    while i > 0 or j > 0:
+        if i > 0 and j > 0 and typed[i - 1] == intended[j - 1] and d[i][j] == d[i - 1][j - 1]:
+            i, j = i - 1, j - 1
+            continue
+        if i > 0 and j > 0 and d[i][j] == d[i - 1][j - 1] + 1:
+            edits.append(("sub", typed[i - 1], intended[j - 1]))
+            i, j = i - 1, j - 1
+            continue
+        if (i > 1 and j > 1 and typed[i - 1] == intended[j - 2] and typed[i - 2] == intended[j - 1]
+                and d[i][j] == d[i - 2][j - 2] + 1):
+            edits.append(("trans", intended[j - 2], intended[j - 1]))
+            i, j = i - 2, j - 2
+            continue
+        if j > 0 and d[i][j] == d[i][j - 1] + 1:
+            prev = intended[j - 2] if j > 1 else START
+            edits.append(("del", prev, intended[j - 1]))
+            j -= 1
+            continue
+        prev = typed[i - 2] if i > 1 else START
+        edits.append(("ins", prev, typed[i - 1]))
+        i -= 1
+    edits.reverse()
+    return edits or None
+
+
+# ---------------------------------------------------------------- the model
+
+
+@dataclass
+class ChannelModel:
+    """Edit counts, context counts and the derived per-edit rates."""
+
+    dels: dict[str, float]  # key x+y
+    inss: dict[str, float]  # key x+y
+    subs: dict[str, float]  # key t+c
+    trans: dict[str, float]  # key x+y
+    unigrams: dict[str, float]  # char -> count in running text (scaled)
+    bigrams: dict[str, float]  # "xy" -> count in running text (scaled)
+    edits_k: list[float]  # P(k edits | error), k = 1, 2, 3+
+    beta: float = 0.5
+    alphabet: str = LETTERS
+    _sub_total: dict[str, float] = field(default_factory=dict, repr=False)
+    _ins_total: dict[str, float] = field(default_factory=dict, repr=False)
+
+    def __post_init__(self) -> None:
+        a = self.alphabet
+        self._sub_total = {c: sum(self.sub_rate(t, c) for t in a if t != c) for c in a}
+        self._ins_total = {x: sum(self.ins_rate(x, y) for y in a) for x in (START + a)}
+        k = self.edits_k
+        self._log_first = math.log(k[0])
+        # Each edit after the first costs the ratio of successive P(k).
+        self._log_more = math.log(max(k[1], 1e-6) / k[0])
+
+    # -- rates (smoothed) ---------------------------------------------------
+
+    def _uni(self, c: str) -> float:
+        return self.unigrams.get(c, 0.0) + 1.0
+
+    def _bi(self, xy: str) -> float:
+        return self.bigrams.get(xy, 0.0) + 1.0
+
+    def sub_rate(self, t: str, c: str) -> float:
+        prior = 1.0 if adjacent(t, c) else 0.1
+        return (self.subs.get(t + c, 0.0) + self.beta * prior) / self._uni(c)
+
+    def del_rate(self, x: str, y: str) -> float:
+        prior = 1.0 if x == y else 0.3  # doubled letters are dropped most often
+        return (self.dels.get(x + y, 0.0) + self.beta * prior) / self._bi(x + y)
+
+    def ins_rate(self, x: str, y: str) -> float:
+        prior = 1.0 if (x == y or adjacent(x, y)) else 0.1
+        return (self.inss.get(x + y, 0.0) + self.beta * prior) / self._uni(x)
+
+    def trans_rate(self, x: str, y: str) -> float:
+        return (self.trans.get(x + y, 0.0) + self.beta * 0.5) / self._bi(x + y)
+
+    def edit_rate(self, edit: tuple[str, str, str]) -> float:
+        kind, x, y = edit
+        if kind == "sub":
+            return self.sub_rate(x, y)
+        if kind == "del":
+            return self.del_rate(x, y)
+        if kind == "ins":
+            return self.ins_rate(x, y)
+        return self.trans_rate(x, y)
+
+    # -- normalisation over the typos of one intended word -----------------
+
+    def total_rate(self, intended: str) -> float:
+        """Z(c): the summed rate of every single edit applicable to ``intended``."""
+        z = self._ins_total.get(START, 0.0)
+        prev = START
+        sub_total, ins_total = self._sub_total, self._ins_total
+        for i, ch in enumerate(intended):
+            z += sub_total.get(ch, 0.0) or self.beta * 0.1
+            z += self.del_rate(prev, ch)
+            z += ins_total.get(ch, 0.0) or self.beta * 0.1
+            if i + 1 < len(intended):
+                z += self.trans_rate(ch, intended[i + 1])
+            prev = ch
+        return z
+
+    def log_q(self, typed: str, intended: str) -> float:
+        """log Q(typed | intended): the typo's probability given that an error occurred."""
+        if typed == intended:
+            return 0.0
+        log_z = math.log(self.total_rate(intended))
+        cost = self._cheapest_path(typed, intended, log_z)
+        return self._log_first - cost
+
+    def _cheapest_path(self, typed: str, intended: str, log_z: float) -> float:
+        """Weighted OSA: each edit costs -log(share) - log(P(k+1)/P(k))."""
+        more = -self._log_more
+        # Strip the common prefix/suffix: alignment there is free anyway,
+        # but the context character of the first edit must be kept.
+        p = 0
+        while p < len(typed) and p < len(intended) and typed[p] == intended[p]:
+            p += 1
+        s = 0
+        while (s < len(typed) - p and s < len(intended) - p
+               and typed[len(typed) - 1 - s] == intended[len(intended) - 1 - s]):
+            s += 1
+        t = typed[p : len(typed) - s]
+        c = intended[p : len(intended) - s]
+        ctx_t = typed[p - 1] if p > 0 else START
+        ctx_c = intended[p - 1] if p > 0 else START
+
+        def cost(rate: float) -> float:
+            return -(math.log(rate) - log_z) + more
+
+        n, m = len(t), len(c)
+        INF = float("inf")
+        d = [[INF] * (m + 1) for _ in range(n + 1)]
+        d[0][0] = 0.0
+        for i in range(n + 1):
+            for j in range(m + 1):
+                if i == 0 and j == 0:
+                    continue
+                best = INF
+                prev_c = c[j - 2] if j > 1 else ctx_c
+                prev_t = t[i - 2] if i > 1 else ctx_t
+                if i > 0 and j > 0:
+                    if t[i - 1] == c[j - 1]:
+                        best = d[i - 1][j - 1]
+                    else:
+                        best = d[i - 1][j - 1] + cost(self.sub_rate(t[i - 1], c[j - 1]))
+                if j > 0:
+                    best = min(best, d[i][j - 1] + cost(self.del_rate(prev_c, c[j - 1])))
+                if i > 0:
+                    best = min(best, d[i - 1][j] + cost(self.ins_rate(prev_t, t[i - 1])))
+                if i > 1 and j > 1 and t[i - 1] == c[j - 2] and t[i - 2] == c[j - 1]:
+                    best = min(best, d[i - 2][j - 2] + cost(self.trans_rate(c[j - 2], c[j - 1])))
+                d[i][j] = best
+        # The first edit is not charged the "more edits" ratio.
+        return d[n][m] - more
+
+    # -- persistence --------------------------------------------------------
+
+    def to_dict(self) -> dict:
+        return {
+            "del": self.dels, "ins": self.inss, "sub": self.subs, "trans": self.trans,
+            "unigrams": self.unigrams, "bigrams": self.bigrams,
+            "edits_k": self.edits_k, "beta": self.beta, "alphabet": self.alphabet,
+        }
+
+    @classmethod
+    def from_dict(cls, d: dict) -> "ChannelModel":
+        return cls(d["del"], d["ins"], d["sub"], d["trans"], d["unigrams"], d["bigrams"],
+                   list(d["edits_k"]), d["beta"], d["alphabet"])
+
+
+def train_channel(
+    pairs: Iterable[tuple[str, str]],
+    text_chars: Counter[str],
+    text_bigrams: Counter[str],
+    *,
+    beta: float = 0.5,
+    extra_edits: Iterable[tuple[tuple[str, str, str], float]] = (),
+) -> ChannelModel:
+    """Count edits in aligned pairs; scale text character counts to the pairs' size.
+
+    Pairs are lower-cased; pairs more than 3 edits apart are skipped for
+    counting (they are not typing errors in the sense of this model) but
+    still counted in P(k edits).
+    """
+    dels: Counter[str] = Counter()
+    inss: Counter[str] = Counter()
+    subs: Counter[str] = Counter()
+    trans: Counter[str] = Counter()
+    k_counts = Counter()
+    correct_chars = 0
+    for typed, intended in pairs:
+        typed, intended = typed.lower(), intended.lower()
+        if typed == intended or " " in typed or " " in intended:
+            continue
+        edits = align(typed, intended)
+        if not edits:
+            continue
+        k_counts[min(len(edits), 3)] += 1
+        if len(edits) > 3:
+            continue
+        correct_chars += len(intended)
+        for kind, x, y in edits:
+            target = {"del": dels, "ins": inss, "sub": subs, "trans": trans}[kind]
+            target[x + y] += 1.0 / len(edits)
+    for (kind, x, y), weight in extra_edits:
+        target = {"del": dels, "ins": inss, "sub": subs, "trans": trans}[kind]
+        target[x + y] += weight
+    total_text = sum(text_chars.values()) or 1
+    scale = max(correct_chars, 1) / total_text
+    unigrams = {c: n * scale for c, n in text_chars.items()}
+    bigrams = {xy: n * scale for xy, n in text_bigrams.items()}
+    total_k = sum(k_counts.values()) or 1
+    edits_k = [max(k_counts[k] / total_k, 1e-4) for k in (1, 2, 3)]
+    return ChannelModel(dict(dels), dict(inss), dict(subs), dict(trans), unigrams, bigrams, edits_k, beta)
+
+
+def text_char_counts(words: Iterable[tuple[str, float]]) -> tuple[Counter[str], Counter[str]]:
+    """Character and character-pair counts of running text, from word frequencies."""
+    chars: Counter[str] = Counter()
+    pairs: Counter[str] = Counter()
+    for word, weight in words:
+        prev = START
+        for ch in word:
+            chars[ch] += weight
+            pairs[prev + ch] += weight
+            prev = ch
+        chars[START] += weight
+    return chars, pairs
+
+
+def describe(edits: Sequence[tuple[str, str, str]]) -> str:
+    """Human-readable edit list for hover texts and debugging."""
+    out = []
+    for kind, x, y in edits:
+        if kind == "sub":
+            out.append(f"'{y}' typed as '{x}'")
+        elif kind == "del":
+            out.append(f"'{y}' left out")
+        elif kind == "ins":
+            out.append(f"extra '{y}'")
+        else:
+            out.append(f"'{x}{y}' swapped")
+    return ", ".join(out)
