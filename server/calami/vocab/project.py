@@ -241,8 +241,11 @@ def _load_toml(path: Path) -> tuple[dict[str, Any], str]:
     except tomllib.TOMLDecodeError as exc:
         message = str(exc)
         found = re.search(r"\(at line (\d+), column \d+\)", message)
-        line = found.group(1) if found else "1"
-        message = re.sub(r"\s*\(at line \d+, column \d+\)", "", message)
+        if found:
+            line = found.group(1)
+        else:  # "(at end of document)": the error is on the last line
+            line = str(text.count("\n") + 1)
+        message = re.sub(r"\s*\(at (?:line \d+, column \d+|end of document)\)", "", message)
         raise ConfigError(f"{path}:{line}: invalid TOML: {message}") from exc
 
 

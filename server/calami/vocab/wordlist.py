@@ -142,7 +142,6 @@ def add_words(path: str | os.PathLike[str], words: Iterable[str]) -> list[str]:
     wanted = [validate_new_word(w) for w in words]
     with locked(target):
         current = read(target)
-        before = current.render() if target.exists() else None
         present = set(current.words)
         added: list[str] = []
         for word in wanted:
@@ -151,7 +150,7 @@ def add_words(path: str | os.PathLike[str], words: Iterable[str]) -> list[str]:
                 added.append(word)
                 current.entries.append(Entry(word))
         current.normalise()
-        if current.render() != before:
+        if added:  # an add that changes nothing leaves the file as the user wrote it
             _write(target, current)
     return added
 

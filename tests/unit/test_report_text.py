@@ -1,0 +1,109 @@
+"""Text and JSON reports: positions, markers, colour rules, summary wording."""
+
+from __future__ import annotations
+
+import io
+import json
+
+import pytest
+
+from calami.findings import Finding, Suggestion
+from calami.report import Summary, json_array, locate
+from calami.report import text as text_report
+from calami.report.progress import Progress
+
+
+def _finding(text, word, kind="nonword", confident=False, suggestions=("x",)):
+    start = text.index(word)
+    return Finding(start, start + len(word), word, kind, 0.9, tuple(Suggestion(s, 0.5) for s in suggestions), confident)
+
+
+def test_locate_counts_code_points_and_handles_every_line_ending():
+    text = "a\r\nb\rc\n🙂x 中 typo\n"
+    [item] = locate("f", text, [_finding(text, "typo")])
+    assert (item.line, item.column, item.end_line, item.end_column) == (4, 6, 4, 10)
+    assert item.context == "🙂x 中 typo"
+
+
+def test_findings_are_reported_in_document_order():
+    text = "one two three"
+    placed = locate("f", text, [_finding(text, "three"), _finding(text, "one")])
+    assert [p.finding.word for p in placed] == ["one", "three"]
+
+
+def test_long_lines_are_cut_around_the_word():
+    text = "word " * 60 + "typo " + "tail " * 60
+    [item] = locate("f", text, [_finding(text, "typo")])
+    block = text_report.render_one(item).splitlines()
+    context, marker = block[1], block[2]
+    assert len(context) < 220 and "…" in context
+    assert context[marker.index("^"):marker.index("^") + 4] == "typo"
+
+
+def test_render_colour_and_labels():
+    text = "data form disk"
+    [item] = locate("p.md", text, [_finding(text, "form", kind="realword", suggestions=("from", "fork"))])
+    plain = text_report.render_one(item, colour=False)
+    assert plain.splitlines()[0] == "p.md:1:6: form (possibly the wrong word)"
+    assert plain.splitlines()[3].endswith("= suggestions: from, fork")
+    coloured = text_report.render_one(item, colour=True)
+    assert "\x1b[33m" in coloured and "\x1b[0m" in coloured
+    assert text_report.render_one(item, colour=True).count("^") == 4
+
+
+class _Tty(io.StringIO):
+    def isatty(self):
+        return True
+
+
+def test_use_colour_follows_terminal_and_no_color(monkeypatch):
+    # NO_COLOR convention (no-color.org): a non-empty value disables colour.
+    monkeypatch.delenv("NO_COLOR", raising=False)
+    assert text_report.use_colour(_Tty()) and not text_report.use_colour(io.StringIO())
+    monkeypatch.setenv("NO_COLOR", "1")
+    assert not text_report.use_colour(_Tty())
+    assert text_report.use_colour(io.StringIO(), "always") and not text_report.use_colour(_Tty(), "never")
+    monkeypatch.setenv("NO_COLOR", "")
+    assert text_report.use_colour(_Tty())
+
+
+@pytest.mark.parametrize(
+    "summary, line",
+    [
+        (Summary(files_checked=3), "No findings in 3 files checked."),
+        (Summary(files_checked=1, files_skipped=1), "No findings in 1 file checked, 1 file skipped."),
+        (Summary(files_checked=4, files_with_findings=2, nonword=2, realword=1),
+         "3 findings (2 unknown, 1 wrong-word) in 2 files; 4 files checked."),
+    ],
+)
+def test_summary_line(summary, line):
+    assert text_report.summary_line(summary) == line
+
+
+def test_json_array_shape():
+    text = "x\nnaïve recieve\n"
+    located = locate("d/f.md", text, [_finding(text, "recieve", suggestions=("receive", "relieve"))])
+    [record] = json.loads(json_array.render(located))
+    assert record == {
+        "path": "d/f.md", "line": 2, "column": 7, "end_line": 2, "end_column": 14, "word": "recieve",
+        "kind": "nonword", "confidence": 0.9,
+        "suggestions": [{"text": "receive", "probability": 0.5}, {"text": "relieve", "probability": 0.5}],
+    }
+    assert json.loads(json_array.render([])) == []
+
+
+def test_progress_bar_only_on_a_terminal_after_a_delay():
+    clock = iter([0.0, 0.1, 1.0, 1.01, 2.0]).__next__
+    stream = _Tty()
+    bar = Progress(10, stream, clock=clock)
+    bar.update(1, "a.md")  # t=0.1: too early
+    assert stream.getvalue() == ""
+    bar.update(2, "b.md")  # t=1.0: shows
+    assert "2/10" in stream.getvalue() and "b.md" in stream.getvalue()
+    bar.update(3, "c.md")  # t=1.01: throttled
+    assert "3/10" not in stream.getvalue()
+    bar.close()
+    assert stream.getvalue().endswith("\r\x1b[K")
+    quiet = io.StringIO()
+    Progress(10, quiet, clock=iter([0.0, 5.0]).__next__).update(5)
+    assert quiet.getvalue() == ""
