@@ -1,0 +1,86 @@
+"""Invariant: after any sequence of edits, the cached findings equal a full check."""
+
+from __future__ import annotations
+
+import sys
+from pathlib import Path
+
+from hypothesis import given, settings
+from hypothesis import strategies as st
+from lsprotocol import types
+
+sys.path.insert(0, str(Path(__file__).resolve().parents[1] / "lsp"))
+
+from fake_checker import FakeChecker  # noqa: E402
+
+from calami.lsp.documents import Document, prose_spans  # noqa: E402
+from calami.lsp.positions import UTF8, UTF16, PositionMap  # noqa: E402
+
+# Pieces that exercise the fake's rules, sentence ends, block breaks, CRLF,
+# astral characters (two UTF-16 units), CJK and combining marks.
+PIECES = [
+    "teh", "the", "came", "form", "far", "away", "wrold", "recieve", "word", "ofen",
+    " ", " ", " ", ". ", "! ", "\n", "\n\n", "\r\n", "\r\n\r\n", "# ", "`code`", "😀", "漢字", "e\u0301",
+    "```\nteh\n```\n", "- ", "> ",
+]
+piece_text = st.lists(st.sampled_from(PIECES), max_size=12).map("".join)
+
+
+@st.composite
+def edits(draw, length_hint: int = 40):
+    """(start fraction, end fraction, inserted text): inserts, deletes, replacements, pastes."""
+    a = draw(st.floats(0, 1))
+    b = draw(st.floats(0, 1))
+    kind = draw(st.sampled_from(["insert", "delete", "replace"]))
+    text = "" if kind == "delete" else draw(piece_text)
+    if kind == "insert":
+        b = a
+    return min(a, b), max(a, b), text
+
+
+def full_check(text: str, kind: str) -> list:
+    return FakeChecker().check(text, prose_spans(text, kind))
+
+
+@settings(max_examples=150, deadline=None)
+@given(
+    initial=piece_text,
+    steps=st.lists(edits(), min_size=1, max_size=15),
+    kind=st.sampled_from(["markdown", "plain"]),
+    encoding=st.sampled_from([UTF16, UTF8]),
+)
+def test_cached_findings_equal_a_full_recheck(initial, steps, kind, encoding):
+    checker = FakeChecker()
+    doc = Document("file:///t.md", kind, 1, initial, encoding, kind)
+    doc.cache.findings(doc.text, prose_spans(doc.text, kind), checker)
+    expected_text = initial
+    for n, (a, b, new) in enumerate(steps, start=2):
+        s, e = int(a * len(expected_text)), int(b * len(expected_text))
+        # A range that would split a CRLF or a surrogate pair is still a valid
+        # position; compute the expected text from the offsets the map returns.
+        positions = PositionMap(expected_text, encoding)
+        rng = types.Range(positions.position(s), positions.position(e))
+        s2, e2 = positions.offset(rng.start), positions.offset(rng.end)
+        expected_text = expected_text[:s2] + new + expected_text[e2:]
+        doc.apply([types.TextDocumentContentChangePartial(range=rng, text=new)], n)
+        assert doc.text == expected_text
+        cached = doc.cache.findings(doc.text, prose_spans(doc.text, kind), checker)
+        assert cached == full_check(doc.text, kind)
+
+
+def test_one_character_edit_rescores_one_sentence():
+    paragraphs = [f"Paragraph {i} has a few words. It came form far away. Then teh end." for i in range(200)]
+    text = "\n\n".join(paragraphs)
+    checker = FakeChecker()
+    doc = Document("file:///t.md", "markdown", 1, text, UTF16, "markdown")
+    first = doc.cache.findings(text, prose_spans(text, "markdown"), checker)
+    assert len(first) == 400
+    # Change "few" to "fex" in paragraph 100: one block re-tokenized, one sentence re-scored.
+    offset = text.index("Paragraph 100 has a few") + len("Paragraph 100 has a fe")
+    positions = PositionMap(text, UTF16)
+    doc.apply([types.TextDocumentContentChangePartial(
+        range=types.Range(positions.position(offset), positions.position(offset + 1)), text="x")], 2)
+    second = doc.cache.findings(doc.text, prose_spans(doc.text, "markdown"), checker)
+    assert doc.cache.tokenized_blocks == 1
+    assert doc.cache.scored_sentences == 1
+    assert second == full_check(doc.text, "markdown")
