@@ -43,26 +43,6 @@ def register(subparsers: "argparse._SubParsersAction[argparse.ArgumentParser]") 
 # --------------------------------------------------------------- documents
 
 
-def _formats() -> tuple[Callable[..., Any], Callable[..., Any], Any]:
-    """(extract, detect_kind, KINDS) of ``calami.text.formats``."""
-    try:
-        from calami.text.formats import KINDS, detect_kind, extract
-    except ImportError:  # TEMPORARY: until the prose extractors land, all text is prose
-        from calami.text.spans import Span
-
-        suffixes = {".md": "markdown", ".markdown": "markdown", ".rst": "rst", ".txt": "plain", ".tex": "latex"}
-
-        def extract(text: str, kind: str, options: Any = None) -> list[Span]:
-            return [Span(0, len(text))]
-
-        def detect_kind(path: str, first_line: str) -> str | None:
-            return suffixes.get(Path(path).suffix.lower())
-
-        KINDS = ("markdown", "rst", "plain", "latex")
-    return extract, detect_kind, KINDS
-
-
-
 @dataclass
 class Task:
     """One document to check: where it came from and how to read it."""
@@ -88,8 +68,8 @@ def plan(paths: list[str], kind: str | None, stdin_text: Callable[[], str]) -> P
     """Expand the command line into documents, loading each project once."""
     from calami.vocab.project import load_project
     from calami.walk import walk
+    from calami.text.formats import detect_kind
 
-    _, detect_kind, _ = _formats()
     result = Plan()
 
     def project_for(start: Path):
@@ -164,8 +144,8 @@ class Worker:
         """Check one task; the result is plain data (see ``_unpack_result``)."""
         from calami.report import locate
         from calami.walk import DEFAULT_MAX_BYTES, Skipped, read_document
+        from calami.text.formats import detect_kind
 
-        _, detect_kind, _ = _formats()
         out: dict[str, Any] = {"display": task["display"], "findings": [], "notes": [], "skipped": None, "error": None}
         text = task["text"]
         if text is None:
@@ -195,16 +175,10 @@ class Worker:
 
 def check_document(text: str, kind: str, project: Any, checker: Any) -> tuple[list[Any], list[str]]:
     """Findings in one document's prose, after the project's ignore patterns cut theirs out."""
+    from calami.text.formats import ExtractOptions, extract
     from calami.text.spans import subtract
 
-    extract, _, _ = _formats()
-    try:
-        from calami.text.formats import ExtractOptions
-
-        options: Any = ExtractOptions(strings=project.config.check_strings)
-    except ImportError:  # TEMPORARY, see _formats
-        options = None
-    spans = extract(text, kind, options)
+    spans = extract(text, kind, ExtractOptions(strings=project.config.check_strings))
     holes, notes = project.ignore_holes(text)
     if holes:
         spans = subtract(spans, holes)
@@ -290,8 +264,8 @@ def run(args: argparse.Namespace) -> int:
     from calami.report import Summary
     from calami.report import json_array, sarif, text as text_report
     from calami.report.progress import Progress
+    from calami.text.formats import KINDS
 
-    _, _, KINDS = _formats()
     if args.jobs < 1:
         raise CalamiError("--jobs must be at least 1")
     if args.kind is not None and args.kind not in KINDS:
