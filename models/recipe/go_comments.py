@@ -1,0 +1,89 @@
+"""Go source file -> paragraphs of its comment prose.
+
+The Go standard library documents itself in comments: careful English that
+sits right beside code, the very kind of text calami checks in source files.
+Indented comment lines are code examples (Go doc comment convention) and are
+dropped; compiler directives, licence headers and generated files too.
+"""
+
+from __future__ import annotations
+
+import re
+
+_DIRECTIVE = re.compile(r"^(?:go:|line |export |extern |\+build|nolint|lint:|#cgo)")
+_GENERATED = re.compile(r"^// Code generated .* DO NOT EDIT\.$", re.MULTILINE)
+_LIST_ITEM = re.compile(r"^\s*(?:[-*+•]|\d+[.)])\s+")
+
+
+def comment_blocks(source: str) -> list[list[str]]:
+    """Runs of whole-line comments (// lines or a /* */ region), markers removed."""
+    blocks: list[list[str]] = []
+    current: list[str] = []
+    in_star = False
+    for raw in source.splitlines():
+        line = raw.strip()
+        if in_star:
+            if "*/" in line:
+                current.append(raw.split("*/", 1)[0].rstrip())
+                in_star = False
+                blocks.append(current)
+                current = []
+            else:
+                current.append(raw.rstrip())
+            continue
+        if line.startswith("//"):
+            text = line[2:]
+            if _DIRECTIVE.match(text):
+                continue
+            current.append(text[1:] if text.startswith(" ") else text)
+            continue
+        if current:
+            blocks.append(current)
+            current = []
+        if line.startswith("/*") and "*/" not in line:
+            in_star = True
+            rest = line[2:].strip()
+            if rest:
+                current.append(rest)
+    if current:
+        blocks.append(current)
+    return blocks
+
+
+def block_paragraphs(lines: list[str]) -> list[str]:
+    """Paragraphs of one block: blank lines, indented code, list items and headings split it."""
+    out: list[str] = []
+    current: list[str] = []
+
+    def flush() -> None:
+        if current:
+            out.append(" ".join(current))
+            current.clear()
+
+    for text in lines:
+        is_item = bool(_LIST_ITEM.match(text))
+        if not text.strip() or (text.startswith(("\t", "  ")) and not is_item):
+            flush()
+        elif text.startswith("# "):  # doc comment heading
+            flush()
+            out.append(text[2:].strip())
+        else:
+            if is_item:
+                flush()
+                text = _LIST_ITEM.sub("", text)
+            current.append(text.strip())
+    flush()
+    return out
+
+
+def comment_paragraphs(source: str) -> list[str]:
+    """Prose paragraphs of the comments of one Go file (none for generated files)."""
+    if _GENERATED.search(source):
+        return []
+    out: list[str] = []
+    for block in comment_blocks(source):
+        joined = " ".join(block).lower()
+        if "copyright" in joined and "license" in joined and len(joined) < 400:
+            continue  # licence header
+        out.extend(block_paragraphs(block))
+    return out

@@ -1,0 +1,137 @@
+"""Which Debian documentation packages feed the training corpus, and which of their files.
+
+Every package here is checked by hand against its /usr/share/doc/<pkg>/copyright:
+the documentation falls under a permissive licence (the ``licence`` field).
+Left out on purpose: sqlite3-doc (held out for evaluation, see
+tests/data/heldout-prose/), git-doc, perl-doc and the Debian handbook (kept for
+independent evaluation), python-celery-doc (its docs/ are CC-BY-SA-4.0),
+nodejs-doc (conflicts with the nodejs package installed on the build machine).
+"""
+
+from __future__ import annotations
+
+import os
+import re
+from dataclasses import dataclass
+from typing import Iterator
+
+DOC = "/usr/share/doc"
+
+# Pages that are lists of links or generated indexes, and copies of sources.
+COMMON_EXCLUDE = re.compile(
+    r"(?:^|/)(?:genindex|py-modindex|np-modindex|modindex|search|searchindex|objects|sitemap)[^/]*\.html?$"
+    r"|/_(?:modules|sources|static|images|downloads|sphinx_design_static)/"
+    r"|/\.doctrees/"
+)
+
+
+SUFFIXES = {"html": (".html", ".htm", ".html.gz"), "go": (".go",)}
+
+
+@dataclass(frozen=True)
+class Source:
+    """One training package: where its pages are and under which licence."""
+
+    name: str  # corpus file name: build/corpus/<name>.txt
+    package: str  # Debian package
+    licence: str
+    roots: tuple[str, ...]
+    exclude: str = ""  # extra regex on the full path
+    notes: str = ""
+    kind: str = "html"  # "html" pages, or "go" source files (comment prose)
+
+    def files(self) -> Iterator[str]:
+        """Pages (or source files) of this source, in a stable order; symlinks are not followed."""
+        suffixes = SUFFIXES[self.kind]
+        extra = re.compile(self.exclude) if self.exclude else None
+        found: list[str] = []
+        for root in self.roots:
+            if os.path.isfile(root):
+                found.append(root)
+                continue
+            for folder, dirs, names in os.walk(root):
+                dirs.sort()
+                for name in names:
+                    if not name.endswith(suffixes):
+                        continue
+                    path = os.path.join(folder, name)
+                    if os.path.islink(path) or COMMON_EXCLUDE.search(path):
+                        continue
+                    if extra and extra.search(path):
+                        continue
+                    found.append(path)
+        yield from sorted(set(found))
+
+
+RUST = f"{DOC}/rust-doc/html"
+
+SOURCES: list[Source] = [
+    Source("python3.11", "python3.11-doc", "PSF-2.0", (f"{DOC}/python3.11/html",)),
+    Source("postgresql-15", "postgresql-doc-15", "PostgreSQL", (f"{DOC}/postgresql-doc-15/html",),
+           exclude=r"/(?:bookindex|release-\d)"),
+    Source("django", "python-django-doc", "BSD-3-Clause", (f"{DOC}/python-django-doc/html",)),
+    Source("golang-1.19", "golang-1.19-doc", "BSD-3-Clause (Go)", (f"{DOC}/golang-1.19-doc/html",)),
+    Source(
+        "rust",
+        "rust-doc",
+        "MIT or Apache-2.0",
+        tuple(f"{RUST}/{d}" for d in (
+            "book", "reference", "nomicon", "edition-guide", "embedded-book", "rust-by-example",
+            "rustc", "rustdoc", "unstable-book", "std", "proc_macro", "error-index.html",
+        )),
+        exclude=r"/std/arch/|/print\.html$|/toc\.html$|/all\.html$",
+        notes="books and std prose; core/alloc (copies of std), src/ and implementors/ skipped",
+    ),
+    Source("scipy", "python-scipy-doc", "BSD-3-Clause", (f"{DOC}/python-scipy-doc/html",)),
+    Source("pandas", "python-pandas-doc", "BSD-3-Clause", (f"{DOC}/python-pandas-doc/html",),
+           exclude=r"/html/generated/"),  # generated/ holds redirect stubs
+    Source("sklearn", "python-sklearn-doc", "BSD-3-Clause", (f"{DOC}/python-sklearn-doc/html",)),
+    Source("sqlalchemy", "python-sqlalchemy-doc", "MIT", (f"{DOC}/python-sqlalchemy-doc/html",)),
+    Source("cmake", "cmake-doc", "BSD-3-Clause", (f"{DOC}/cmake-doc/html",)),
+    Source("sphinx", "sphinx-doc", "BSD-2-Clause", (f"{DOC}/sphinx-doc/html",)),
+    Source("docutils", "docutils-doc", "public domain", (f"{DOC}/docutils-doc",)),
+    Source("apache2", "apache2-doc", "Apache-2.0", (f"{DOC}/apache2-doc/manual/en",)),
+    Source("llvm-15", "llvm-15-doc", "Apache-2.0 WITH LLVM-exception", (f"{DOC}/llvm-15-doc/html",)),
+    Source("clang-15", "clang-15-doc", "Apache-2.0 WITH LLVM-exception", (f"{DOC}/clang-15/html",)),
+    Source("erlang", "erlang-doc", "Apache-2.0", (f"{DOC}/erlang-doc",), exclude=r"/jinterface-[^/]*/doc/html/java/"),
+    Source("flask", "python-flask-doc", "BSD-3-Clause", (f"{DOC}/python-flask-doc/html",)),
+    Source("werkzeug", "python-werkzeug-doc", "BSD-3-Clause", (f"{DOC}/python-werkzeug-doc/html",)),
+    Source("jinja2", "python-jinja2-doc", "BSD-3-Clause", (f"{DOC}/python-jinja2-doc/html",)),
+    Source("click", "python-click-doc", "BSD-3-Clause", (f"{DOC}/python-click-doc/html",)),
+    Source("pytest", "python-pytest-doc", "MIT", (f"{DOC}/python-pytest-doc/html",)),
+    Source("ipython", "python-ipython-doc", "BSD-3-Clause", (f"{DOC}/python-ipython-doc/html",)),
+    Source("astropy", "python-astropy-doc", "BSD-3-Clause", (f"{DOC}/python-astropy-doc/html",)),
+    Source("statsmodels", "python-statsmodels-doc", "BSD-3-Clause", (f"{DOC}/python-statsmodels-doc/html",)),
+    Source("dask", "python-dask-doc", "BSD-3-Clause", (f"{DOC}/python-dask-doc/html",)),
+    Source("xarray", "python-xarray-doc", "Apache-2.0", (f"{DOC}/python-xarray-doc/html",)),
+    Source("mypy", "mypy-doc", "MIT", (f"{DOC}/mypy/html",)),
+    Source("setuptools", "python-setuptools-doc", "MIT", (f"{DOC}/python-setuptools-doc/html",)),
+    Source("requests", "python-requests-doc", "Apache-2.0", (f"{DOC}/python-requests-doc/html",)),
+    Source("attrs", "python-attr-doc", "MIT", (f"{DOC}/python-attr-doc/html",)),
+    Source("scrapy", "python-scrapy-doc", "BSD-3-Clause", (f"{DOC}/python-scrapy-doc/html",)),
+    Source("sympy", "python-sympy-doc", "BSD-3-Clause", (f"{DOC}/python-sympy-doc/html",)),
+    Source("lxml", "python-lxml-doc", "BSD-3-Clause", (f"{DOC}/python-lxml-doc/html",)),
+    Source("cryptography", "python-cryptography-doc", "Apache-2.0 or BSD-3-Clause",
+           (f"{DOC}/python-cryptography-doc/html",)),
+    Source("pygments", "python-pygments-doc", "BSD-2-Clause", (f"{DOC}/python-pygments-doc/html",)),
+    Source("h5py", "python-h5py-doc", "BSD-3-Clause", (f"{DOC}/python-h5py-doc/html",)),
+    Source("mpmath", "python-mpmath-doc", "BSD-3-Clause", (f"{DOC}/python-mpmath-doc/html",)),
+    Source("boost", "libboost1.74-doc", "BSL-1.0", (f"{DOC}/libboost1.74-doc/doc/html",)),
+    Source("openstackclient", "python-openstackclient-doc", "Apache-2.0",
+           (f"{DOC}/python-openstackclient-doc/html",)),
+    Source("tornado", "python-tornado-doc", "Apache-2.0", (f"{DOC}/python-tornado-doc",)),
+    Source("pymongo", "python-pymongo-doc", "Apache-2.0", (f"{DOC}/python-pymongo-doc/html",)),
+    Source("pint", "python-pint-doc", "BSD-3-Clause", (f"{DOC}/python-pint-doc/html",)),
+    Source("babel", "python-babel-doc", "BSD-3-Clause", (f"{DOC}/python-babel-doc/html",)),
+    Source(
+        "golang-1.19-src",
+        "golang-1.19-src",
+        "BSD-3-Clause (Go)",
+        ("/usr/share/go-1.19/src",),
+        exclude=r"_test\.go$|/testdata/|/vendor/",
+        notes="comment prose of the Go standard library and tools",
+        kind="go",
+    ),
+]
+
+PACKAGES: list[str] = sorted({s.package for s in SOURCES})
