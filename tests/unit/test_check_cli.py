@@ -237,3 +237,12 @@ def test_usage_errors_exit_2(project, capsys, monkeypatch):
     with pytest.raises(SystemExit) as exc:
         cli.main(["check", "--format", "xml", "a.txt"])
     assert exc.value.code == 2
+
+
+def test_folder_walk_detects_kinds_by_shebang_and_skips_unknown_files(project, capsys, monkeypatch):
+    write(project / "bin" / "tool", "#!/bin/sh\n# teh helper script\necho teh\n")
+    write(project / "bin" / "data.xyz", "teh unknown kind\n")
+    code, out, _ = run(["--format", "json", "bin"], capsys, project, monkeypatch)
+    assert code == 1
+    # Only the comment is prose in a shell script; the unknown file is not read.
+    assert [(i["path"], i["line"]) for i in json.loads(out)] == [("bin/tool", 2)]

@@ -87,7 +87,8 @@ def plan(paths: list[str], kind: str | None, stdin_text: Callable[[], str]) -> P
             for found in walk(path, project.selects):
                 found_kind = kind
                 if found_kind is None:
-                    found_kind = detect_kind(str(found), _first_line(found))
+                    # The name usually decides; only then read a line for a shebang.
+                    found_kind = detect_kind(str(found), "") or detect_kind(str(found), _first_line(found))
                     if found_kind is None:
                         continue  # not a document kind we read
                 result.tasks.append(Task(_display(found, raw, path), str(found.resolve()), str(project.root), found_kind))
