@@ -35,7 +35,7 @@ def lifecycle(server: CalamiServer) -> None:
         logs.to_client(ls)
         caps = params.capabilities
         offered = caps.general.position_encodings if caps.general else None
-        ls.encoding = choose_encoding([str(e) for e in offered] if offered else None)
+        ls.encoding = choose_encoding(list(offered) if offered else None)
         ls.pull_mode = bool(caps.text_document and caps.text_document.diagnostic)
         ls.projects.set_folders(_folders(params))
         if params.initialization_options is not None:

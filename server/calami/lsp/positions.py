@@ -22,7 +22,7 @@ _CODECS = {UTF8: ("utf-8", 1), UTF16: ("utf-16-le", 2), UTF32: ("utf-32-le", 4)}
 
 def choose_encoding(offered: list[str] | None) -> str:
     """UTF-16 unless the client offers UTF-8 (cheaper for us to honour)."""
-    offered = [str(e) for e in offered or []]
+    offered = [getattr(e, "value", e) for e in offered or []]  # enum members or plain strings
     if UTF8 in offered:
         return UTF8
     if UTF16 in offered or not offered:

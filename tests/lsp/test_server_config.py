@@ -1,0 +1,109 @@
+"""Pull diagnostics, settings (initializationOptions / workspace/configuration), watched files, multi-root."""
+
+from __future__ import annotations
+
+from lsprotocol import types
+
+from session import capabilities, open_doc, published_for, start, stop, until
+
+
+def _project(root, toml=None, words=None):
+    root.mkdir(parents=True)
+    (root / ".git").mkdir()
+    if toml is not None:
+        (root / "calami.toml").write_text(toml)
+    if words is not None:
+        (root / "calami-words.txt").write_text(words)
+    return root
+
+
+async def test_pull_diagnostics_and_unchanged_reports(tmp_path):
+    root = _project(tmp_path / "p")
+    client, _ = await start(tmp_path / "profile", [root], caps=capabilities(pull=True))
+    try:
+        uri = open_doc(client, root / "a.md", "teh end\n")
+        report = await client.text_document_diagnostic_async(
+            types.DocumentDiagnosticParams(types.TextDocumentIdentifier(uri)))
+        assert [d.code for d in report.items] == ["calami.nonword"]
+        again = await client.text_document_diagnostic_async(
+            types.DocumentDiagnosticParams(types.TextDocumentIdentifier(uri), previous_result_id=report.result_id))
+        assert again.kind == "unchanged"
+        assert client.published == []  # pull mode: nothing pushed
+    finally:
+        await stop(client)
+
+
+async def test_bad_settings_are_reported_and_defaults_used(tmp_path):
+    root = _project(tmp_path / "p")
+    options = {"maxSuggestions": "many", "severity": {"nonword": "warning"}, "hintThreshold": 7, "bogus": 1}
+    client, _ = await start(tmp_path / "profile", [root], options=options)
+    try:
+        uri = open_doc(client, root / "a.md", "teh end\n")
+        params = await until(lambda: published_for(client, uri, 1))
+        assert params.diagnostics[0].severity == types.DiagnosticSeverity.Warning  # the good value is used
+        texts = " | ".join(m.message for m in client.messages)
+        assert "calami.maxSuggestions" in texts and "calami.hintThreshold" in texts and "calami.bogus" in texts
+    finally:
+        await stop(client)
+
+
+async def test_workspace_configuration_change_rechecks(tmp_path):
+    root = _project(tmp_path / "p")
+    client, _ = await start(tmp_path / "profile", [root], caps=capabilities(configuration=True),
+                            configuration={"calami": {"severity": {"realword": "error"}}})
+    try:
+        uri = open_doc(client, root / "a.md", "They came form far.\n")
+        await until(lambda: (p := published_for(client, uri, 1))
+                    and p.diagnostics and p.diagnostics[0].severity == types.DiagnosticSeverity.Error)
+        client.set_configuration({"calami": {"hintThreshold": 0.8}})
+        n = len(client.published)
+        client.workspace_did_change_configuration(types.DidChangeConfigurationParams(settings=None))
+        # The fake's real-word confidence is 0.7: below the new threshold.
+        await until(lambda: len(client.published) > n and list(client.diagnostics[uri]) == [])
+    finally:
+        await stop(client)
+
+
+async def test_watched_word_list_change_reloads_words(tmp_path):
+    root = _project(tmp_path / "p", words="# team words\n")
+    client, _ = await start(tmp_path / "profile", [root], caps=capabilities(watch=True), options={"debounceMs": 0})
+    try:
+        await until(lambda: client.registrations)
+        globs = [w["globPattern"] for w in client.registrations[0].register_options["watchers"]]
+        assert "**/calami-words.txt" in globs and "**/calami.toml" in globs
+        uri = open_doc(client, root / "a.md", "teh wrold\n")
+        await until(lambda: published_for(client, uri, 1))
+        (root / "calami-words.txt").write_text("# team words\nwrold\n")  # a teammate's git pull
+        client.workspace_did_change_watched_files(types.DidChangeWatchedFilesParams(
+            [types.FileEvent((root / "calami-words.txt").as_uri(), types.FileChangeType.Changed)]))
+        await until(lambda: [d.data["word"] for d in client.diagnostics[uri]] == ["teh"])
+    finally:
+        await stop(client)
+
+
+async def test_each_folder_has_its_own_words_and_config(tmp_path):
+    one = _project(tmp_path / "one", words="teh\n")
+    two = _project(tmp_path / "two", toml="[thresholds]\nhint = 0.95\nconfident = 0.99\n")
+    client, _ = await start(tmp_path / "profile", [one, two])
+    try:
+        a = open_doc(client, one / "a.md", "teh wrold\n")
+        b = open_doc(client, two / "b.md", "teh wrold\n")
+        c = open_doc(client, tmp_path / "c.md", "teh wrold\n")  # outside both folders
+        await until(lambda: all(published_for(client, u, 1) for u in (a, b, c)))
+        assert [d.data["word"] for d in client.diagnostics[a]] == ["wrold"]
+        assert list(client.diagnostics[b]) == []  # 0.9 < the folder's hint threshold
+        assert [d.data["word"] for d in client.diagnostics[c]] == ["teh", "wrold"]
+    finally:
+        await stop(client)
+
+
+async def test_broken_project_config_is_reported_and_defaults_used(tmp_path):
+    root = _project(tmp_path / "p", toml="variant = [unclosed\n")
+    client, _ = await start(tmp_path / "profile", [root])
+    try:
+        uri = open_doc(client, root / "a.md", "teh\n")
+        await until(lambda: published_for(client, uri, 1))
+        assert len(client.diagnostics[uri]) == 1
+        assert any("calami.toml" in m.message for m in client.messages)
+    finally:
+        await stop(client)
