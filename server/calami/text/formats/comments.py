@@ -18,25 +18,26 @@ from calami.text.formats.rst_inline import inline_holes as rst_holes
 from calami.text.formats.textscan import SpanList, cut, indent_of, iter_lines, trim
 from calami.text.spans import Span
 
-_LICENSE = regex.compile(r"(?i)\s*(?:spdx-[\w-]+:|copyright\b|\(c\)\s+\d{4}|@license\b|all rights reserved)")
-_DIRECTIVE = regex.compile(
-    r"\s*(?:type:\s|noqa\b|pragma[:\s]|pylint:|mypy:|fmt:\s|isort:|ruff:|pyright:|eslint[\s-]|prettier-ignore|"
-    r"@ts-|tslint:|jshint|istanbul\s|c8\s|go:\w|\+build\s|nolint|NOLINT|clang-format\s|rustfmt::|"
-    r"#(?:end)?region\b|vim?:\s|-\*-|shellcheck\s|language=|@flow\b|@jsx\b|<reference\s)"
-)
-_CODE = regex.compile(
+# Comment lines that are not prose: licence headers, tool directives, code.
+_NOT_PROSE = regex.compile(
     r"""\s*(?:
-        [^\n]*[;{}]\s*$                                          # statement or block end
+        (?i:spdx-[\w-]+:|copyright\b|\(c\)\s+\d{4}|@license\b|all\s+rights\s+reserved)
+      | (?:type:\s|noqa\b|pragma[:\s]|pylint:|mypy:|fmt:\s|isort:|ruff:|pyright:|eslint[\s-]|prettier-ignore
+           |@ts-|tslint:|jshint|istanbul\s|c8\s|go:\w|\+build\s|nolint|NOLINT|clang-format\s|rustfmt::
+           |\#(?:end)?region\b|vim?:\s|-\*-|shellcheck\s|language=|@flow\b|@jsx\b|<reference\s)
+      | [^\n]*[;{}]\s*$                                          # statement or block end
       | [\w.$\[\]'"]+\s*(?:[-+*/%|&^]|<<|>>|\?\?)?=(?!=)\s*\S      # x = y, x += 1
       | [\w.$]+(?:\[[^\]\n]*\])?\([^\n]*\)\s*[;,]?\s*$             # f(x)
       | (?:import|from|def|class|fn|func|function|let|const|var|return|if|elif|else|for|while|try|except|catch|
            switch|case|package|using|namespace|struct|enum|impl|pub|use|mod|include|define|ifdef|ifndef|endif|
            echo|export|local|print)\b[^\n]*[(){}\[\]=:;]\s*$
-      | [#@]\w+.*[(){}\[\]<>"]\s*$                                 # #include <x>, @decorator(...)
+      | [\#@]\w+.*[(){}\[\]<>"]\s*$                                # #include <x>, @decorator(...)
       | (?:>>>|\.\.\.)(?:\s|$)                                     # doctest
     )""",
     regex.VERBOSE,
 )
+# Characters without which a comment line has no markup to cut (a quick reject).
+_ANY_MARKUP = regex.compile(r"[`\\<\]$_@{|:\[]|(?:https?|ftp)://|www\.")
 _FENCE = regex.compile(r"\s*(?:```|~~~)")
 _DOC_TAG = regex.compile(
     r"\{@\w+[^}\n]{0,500}\}"
@@ -84,21 +85,21 @@ class CommentCollector:
             self.out.add(s, e, kind)
         self._new_block()
 
-    def spans(self, holes_for: str = "markdown") -> list[Span]:
+    def spans(self) -> list[Span]:
         text = self.text
         holes: list[tuple[int, int]] = []
-        for span in self.out.spans:
-            if span.kind == "docstring":
-                holes.extend(rst_holes(text, span.start, span.end))
-            elif span.kind == "string":
-                holes.extend(_escape_holes(text, span.start, span.end))
+        for start, end, kind, _breaks in self.out.rows:
+            if kind == "string":
+                holes.extend(_escape_holes(text, start, end))
                 continue
+            if _ANY_MARKUP.search(text, start, end) is None:
+                continue
+            if kind == "docstring":
+                holes.extend(rst_holes(text, start, end))
             else:
-                holes.extend(markdown_holes(text, span.start, span.end))
-            if span.kind in ("doc", "comment", "docstring"):
-                holes.extend(m.span() for m in _DOC_TAG.finditer(text, span.start, span.end))
-        holes.sort()
-        return cut(text, self.out.spans, holes)
+                holes.extend(markdown_holes(text, start, end))
+            holes.extend(m.span() for m in _DOC_TAG.finditer(text, start, end))
+        return cut(text, self.out.rows, holes)
 
     # -- internals ---------------------------------------------------------
     def _continues(self, marker_start: int) -> bool:
@@ -133,7 +134,7 @@ class CommentCollector:
             elif ind > self._base_indent:
                 self.out.brk()
                 return
-        if _LICENSE.match(text, s, e) or _DIRECTIVE.match(text, s, e) or _CODE.match(text, s, e):
+        if _NOT_PROSE.match(text, s, e):
             self.out.brk()
             return
         self.out.add(s, e, kind)

@@ -52,11 +52,10 @@ def extract(text: str, options: ExtractOptions | None = None) -> list[Span]:
         if not subject_done:
             out.brk()
         subject_done = True
-    spans = out.spans
     holes = []
-    for span in spans:
-        holes.extend(inline_holes(text, span.start, span.end))
-    return cut(text, spans, holes)
+    for start, end, _kind, _breaks in out.rows:
+        holes.extend(inline_holes(text, start, end))
+    return cut(text, out.rows, holes)
 
 
 def _message_lines(text: str, comment: str) -> list[tuple[int, int]]:

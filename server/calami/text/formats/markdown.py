@@ -327,9 +327,9 @@ class _Parser:
         for s, e in rows:
             s2, e2 = _strip(text, s, e)
             if e2 > s2:
-                spans.append(Span(s2, e2, kind, not spans))
+                spans.append((s2, e2, kind, not spans))
         if spans:
-            holes = inline_holes(text, spans[0].start, spans[-1].end)
+            holes = inline_holes(text, spans[0][0], spans[-1][1])
             self.spans.extend(cut(text, spans, holes))
 
     def _table_row(self, start: int, end: int) -> None:

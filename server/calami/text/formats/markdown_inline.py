@@ -39,17 +39,23 @@ _CODE_ELEMENTS = frozenset({"code", "kbd", "samp", "var", "pre", "script", "styl
 def inline_holes(text: str, start: int, end: int) -> list[tuple[int, int]]:
     """Ranges inside [start, end) that are Markdown syntax or code."""
     holes: list[tuple[int, int]] = []
-    closers = _BacktickClosers(text, start, end)
+    search = _INTERESTING.search
+    m = search(text, start, end)
+    if m is None:
+        return holes
+    closers: _BacktickClosers | None = None
     finders: dict[str, ForwardFinder] = {}
     pos = start
-    search = _INTERESTING.search
     while True:
-        m = search(text, pos, end)
+        if pos > start:
+            m = search(text, pos, end)
         if m is None:
             break
         p = m.start()
         c = text[p]
         if c == "`":
+            if closers is None:
+                closers = _BacktickClosers(text, start, end)
             run = _BACKTICKS.match(text, p, end).end()
             close = closers.after(run, run - p)
             if close is None:

@@ -184,8 +184,8 @@ class _Scanner:
         self._emit(rows, kind)
 
     def _emit(self, rows: list[tuple[int, int]], kind: str) -> None:
-        spans = [Span(s, e, kind, i == 0) for i, (s, e) in enumerate(rows) if e > s]
+        spans = [(s, e, kind, i == 0) for i, (s, e) in enumerate(rows) if e > s]
         if not spans:
             return
-        holes = inline_holes(self.text, spans[0].start, spans[-1].end)
+        holes = inline_holes(self.text, spans[0][0], spans[-1][1])
         self.spans.extend(cut(self.text, spans, holes))

@@ -71,14 +71,16 @@ def extract(text: str, options: ExtractOptions | None = None, *, language: str =
             sink.block_comment(q, body_end, doc)
             pos = after
         elif group in ("dq", "sqstr"):
-            pattern = _DQ_MULTI if language == "rust" else (_DQ_LINE if group == "dq" else _SQ_STR)
-            sm = pattern.match(text, p)
+            if language == "rust":
+                sm = _DQ_MULTI.match(text, p)
+            else:
+                sm = (_DQ_LINE if group == "dq" else _SQ_STR).match(text, p, _line_end(text, p))
             e = sm.end()
             if strings:
                 sink.string(p + 1, _content_end(text, p + 1, e, text[p]))
             pos = max(e, p + 1)
         elif group == "sq":
-            cm = _CHAR.match(text, p)
+            cm = _CHAR.match(text, p, p + 16)
             pos = cm.end() if cm else p + 1
         elif group in ("template", "rawbt"):
             sm = (_TEMPLATE if group == "template" else _RAW_BT).match(text, p)
@@ -107,7 +109,7 @@ def extract(text: str, options: ExtractOptions | None = None, *, language: str =
         else:  # "/" in JavaScript: division or a regex literal
             pos = p + 1
             if _regex_allowed(text, p):
-                rm = _REGEX_LITERAL.match(text, p)
+                rm = _REGEX_LITERAL.match(text, p, _line_end(text, p))
                 if rm:
                     pos = rm.end()
     return sink.spans()

@@ -123,7 +123,7 @@ def _toml(text: str, strings: bool) -> list[Span]:
             close = _find_triple(text, p + 3, quote)
             start, end, pos = p + 3, close, min(n, close + 3)
         else:
-            sm = (_TOML_DQ if group == "dq" else _TOML_SQ).match(text, p)
+            sm = (_TOML_DQ if group == "dq" else _TOML_SQ).match(text, p, _line_end(text, p))
             e = sm.end()
             start, end, pos = p + 1, (e - 1 if e - 1 > p and text[e - 1] == text[p] else e), max(e, p + 1)
         if strings:

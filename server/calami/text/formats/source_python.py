@@ -47,7 +47,7 @@ def extract(text: str, options: ExtractOptions | None = None) -> list[Span]:
             pos = e
             continue
         quote = m.group("quote")
-        body = _BODY[quote].match(text, m.end())
+        body = _BODY[quote].match(text, m.end(), n if len(quote) == 3 else _line_end(text, m.end()))
         e = body.end()
         close = len(quote) if text.endswith(quote, m.end(), e) and e - m.end() >= len(quote) else 0
         content_start, content_end = m.end(), e - close

@@ -12,7 +12,7 @@ from typing import Iterator
 
 import regex
 
-from calami.text.spans import Span, subtract
+from calami.text.spans import Span
 
 _LINE_END = regex.compile(r"\r\n|\r|\n")
 _WS = " \t\f\v\u00a0\u3000\ufeff"
@@ -31,14 +31,34 @@ class ExtractOptions:
     comment_char: str = "#"
 
 
+_ODD_BREAKS = regex.compile("[\v\f\x1c\x1d\x1e\x85\u2028\u2029]")
+
+
 def iter_lines(text: str, start: int = 0, end: int | None = None) -> Iterator[tuple[int, int, int]]:
     """Yield (line_start, content_end, next_line_start) for each line.
 
-    ``content_end`` excludes the line break.  A text ending with a break
-    has no extra empty line after it.
+    Lines end at "\\n", "\\r\\n" or a lone "\\r" only (as LSP counts them);
+    ``content_end`` excludes the break.  A text ending with a break has no
+    extra empty line after it.
     """
     if end is None:
         end = len(text)
+    if start >= end:
+        return
+    chunk = text[start:end] if (start or end != len(text)) else text
+    if _ODD_BREAKS.search(chunk) is None:
+        # str.splitlines is fast and agrees with us when no other separators occur.
+        pos = start
+        for line in chunk.splitlines(True):
+            nxt = pos + len(line)
+            if line.endswith("\r\n"):
+                yield pos, nxt - 2, nxt
+            elif line.endswith(("\n", "\r")):
+                yield pos, nxt - 1, nxt
+            else:
+                yield pos, nxt, nxt
+            pos = nxt
+        return
     pos = start
     search = _LINE_END.search
     while pos < end:
@@ -90,12 +110,16 @@ class SpanList:
     caller passes as ``breaks_before``.
     """
 
-    __slots__ = ("spans", "_pending_break", "_text")
+    __slots__ = ("rows", "_pending_break", "_text")
 
     def __init__(self, text: str) -> None:
         self._text = text
-        self.spans: list[Span] = []
+        self.rows: list[tuple[int, int, str, bool]] = []  # (start, end, kind, breaks_before)
         self._pending_break = True
+
+    @property
+    def spans(self) -> list[Span]:
+        return [Span(*row) for row in self.rows]
 
     def brk(self) -> None:
         self._pending_break = True
@@ -106,7 +130,7 @@ class SpanList:
             return
         breaks = breaks_before or self._pending_break
         self._pending_break = False
-        self.spans.append(Span(start, end, kind, breaks))
+        self.rows.append((start, end, kind, breaks))
 
 
 class ForwardFinder:
@@ -143,20 +167,44 @@ class ForwardFinder:
         return self._last_hit
 
 
-def cut(text: str, spans: list[Span], holes: list[tuple[int, int]]) -> list[Span]:
-    """``spans.subtract`` plus trimming: no piece starts or ends with blanks.
+def cut(text: str, spans: "list[tuple[int, int, str, bool]]", holes: list[tuple[int, int]]) -> list[Span]:
+    """Cut holes out of spans and trim the pieces; linear in spans + holes.
 
-    A piece that trims to nothing hands its ``breaks_before`` to the next
-    piece, so a block still starts a new sentence context.
+    Same meaning as ``spans.subtract`` (the piece after a hole does not
+    start a new sentence), but one merge walk over both sorted lists, and
+    no piece starts or ends with blanks.  A piece that trims to nothing
+    hands its ``breaks_before`` to the next piece, so a block still starts
+    a new sentence context.  ``spans`` are (start, end, kind, breaks_before) rows, sorted and
+    non-overlapping.
     """
-    pieces = subtract(spans, holes) if holes else spans
+    cuts = sorted(h for h in holes if h[1] > h[0]) if holes else []
     out: list[Span] = []
     carry = False
-    for piece in pieces:
-        s, e = trim(text, piece.start, piece.end)
-        if e <= s:
-            carry = carry or piece.breaks_before
-            continue
-        out.append(Span(s, e, piece.kind, piece.breaks_before or carry))
-        carry = False
+    i = 0
+    nh = len(cuts)
+    for start, end, kind, breaks in spans:
+        pos = start
+        while i < nh and cuts[i][1] <= pos:
+            i += 1
+        j = i
+        while True:
+            if j < nh and cuts[j][0] < end:
+                piece_end = max(pos, min(cuts[j][0], end))
+                next_pos = max(pos, cuts[j][1])
+                j += 1
+            else:
+                piece_end = end
+                next_pos = -1
+            if piece_end > pos:
+                s, e = trim(text, pos, piece_end)
+                if e > s:
+                    out.append(Span(s, e, kind, breaks or carry))
+                    carry = False
+                else:
+                    carry = carry or breaks
+                breaks = False
+            if next_pos < 0 or next_pos >= end:
+                break
+            pos = next_pos
+        carry = carry or breaks
     return out
