@@ -119,3 +119,13 @@ def test_lock_excludes_another_process(tmp_path):
         release.set()
         holder.join(30)
     assert holder.exitcode == 0
+
+
+def test_atomic_write_through_a_symbolic_link_keeps_the_link(tmp_path):
+    real = tmp_path / "shared" / "words.txt"
+    real.parent.mkdir()
+    real.write_text("a\n")
+    link = tmp_path / "calami-words.txt"
+    link.symlink_to(real)
+    wordlist.add_words(link, ["b"])
+    assert link.is_symlink() and real.read_text() == "a\nb\n"

@@ -27,7 +27,8 @@ def atomic_write_bytes(path: str | os.PathLike[str], data: bytes) -> None:
     The file's permission bits are kept when it already exists.  On any error
     the temporary file is removed and the original is left untouched.
     """
-    target = Path(path)
+    # Write through a symbolic link to the real file, so the link survives.
+    target = Path(os.path.realpath(path))
     folder = target.parent
     try:
         mode: int | None = os.stat(target).st_mode & 0o7777
