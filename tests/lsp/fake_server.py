@@ -13,5 +13,5 @@ from calami.lsp.server import build_server  # noqa: E402
 from calami.vocab.profile import Profile  # noqa: E402
 
 if __name__ == "__main__":
-    logs.to_stderr(logging.INFO)
+    logs.to_stderr(logging.DEBUG if "--debug" in sys.argv else logging.INFO)
     build_server(make_fake, Profile()).start_io()

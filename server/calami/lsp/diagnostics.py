@@ -11,6 +11,7 @@ from __future__ import annotations
 
 import asyncio
 import logging
+import time
 from concurrent.futures import ThreadPoolExecutor
 from typing import Any, Callable
 
@@ -124,9 +125,12 @@ class Scheduler:
         try:
             if delay > 0:
                 await asyncio.sleep(delay)
+            started = time.perf_counter()
             diagnostics = await self._check(doc)
             if diagnostics is not None and push:
                 self.publish(doc, diagnostics)
+                log.debug("calami: %s v%d: %d diagnostics in %.1f ms", doc.uri, doc.version, len(diagnostics),
+                          (time.perf_counter() - started) * 1000)
         except asyncio.CancelledError:
             raise
         except Exception:  # keep serving; the traceback goes to stderr only

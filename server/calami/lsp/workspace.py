@@ -51,6 +51,7 @@ class Projects:
         self.generation = 0  # bumped whenever words/config change: caches must go
         self.report: Callable[[str], None] = lambda message: log.warning("calami: %s", message)
         self._broken: set[Path] = set()  # roots whose config failed to parse, until reload
+        self._roots: dict[Path, Path] = {}  # document folder -> project root (saves stat calls per keystroke)
 
     # -- folders --------------------------------------------------------------
     def set_folders(self, folders: Sequence[Path]) -> None:
@@ -76,7 +77,9 @@ class Projects:
             return None
         from calami.vocab.project import Project, find_root
 
-        root = find_root(path.parent)
+        root = self._roots.get(path.parent)
+        if root is None:
+            root = self._roots[path.parent] = find_root(path.parent)
         project = self._projects.get(root)
         if project is None and root not in self._broken:
             try:
@@ -100,6 +103,7 @@ class Projects:
 
     def invalidate(self) -> None:
         self._checkers.clear()
+        self._roots.clear()  # a new calami.toml may have made a new root
         self.generation += 1
 
     # -- checkers -------------------------------------------------------------

@@ -1,0 +1,62 @@
+"""`calami serve` itself: start-up failures, and the shipped model end to end."""
+
+from __future__ import annotations
+
+import os
+import subprocess
+import sys
+
+import pytest
+from lsprotocol import types
+
+from calami.model import default_model_path
+from session import REAL_SERVER, open_doc, published_for, start, stop, until
+
+HAVE_MODEL = default_model_path().exists()
+
+
+@pytest.mark.parametrize("content", [None, b"", b"\x93NUMPY not a model", b"\xc1" * 64])
+def test_model_load_failure_is_one_line_naming_the_fix(tmp_path, content):
+    model = tmp_path / "broken.msgpack"
+    if content is not None:
+        model.write_bytes(content)
+    out = subprocess.run([*REAL_SERVER, "--model", str(model)], input="", capture_output=True, text=True,
+                         timeout=60, env=dict(os.environ, CALAMI_PROFILE_DIR=str(tmp_path / "p")))
+    assert out.returncode == 2
+    assert out.stdout == ""  # stdout belongs to the protocol
+    lines = out.stderr.strip().splitlines()
+    assert len(lines) == 1 and lines[0].startswith("calami: "), out.stderr
+    assert "--model" in lines[0] or "CALAMI_MODEL" in lines[0] or "reinstall" in lines[0]
+
+
+def test_tcp_address_parsing():
+    from calami.commands.serve import parse_address
+    from calami.errors import CalamiError
+
+    assert parse_address("2087") == ("127.0.0.1", 2087)
+    assert parse_address("localhost:2087") == ("localhost", 2087)
+    assert parse_address("[::1]:2087") == ("::1", 2087)
+    for bad in ("x", "1:0", "host:99999"):
+        with pytest.raises(CalamiError):
+            parse_address(bad)
+
+
+@pytest.mark.skipif(not HAVE_MODEL, reason="shipped model not built yet")
+async def test_shipped_model_end_to_end(tmp_path):
+    root = tmp_path / "proj"
+    root.mkdir()
+    (root / ".git").mkdir()
+    client, result = await start(tmp_path / "profile", [root], command=REAL_SERVER, options={"debounceMs": 0})
+    try:
+        assert result.server_info.name == "calami"
+        uri = open_doc(client, root / "a.md", "We will recieve the parcel tomorrow.\n")
+        params = await until(lambda: published_for(client, uri, 1), timeout=60)
+        words = {d.data["word"]: d for d in params.diagnostics}
+        assert "recieve" in words
+        diag = words["recieve"]
+        assert diag.code == "calami.nonword" and diag.data["suggestions"][0] == "receive"
+        actions = await client.text_document_code_action_async(
+            types.CodeActionParams(types.TextDocumentIdentifier(uri), diag.range, types.CodeActionContext([diag])))
+        assert actions[0].title == "Replace with 'receive'" and actions[0].is_preferred
+    finally:
+        await stop(client)
