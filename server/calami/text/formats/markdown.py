@@ -27,7 +27,7 @@ _FENCE = regex.compile(r"`{3,}(?=[^`]*$)|~{3,}")
 _THEMATIC = regex.compile(r"(?:(?:\*[ \t]*){3,}|(?:-[ \t]*){3,}|(?:_[ \t]*){3,})$")
 _SETEXT = regex.compile(r"(?:=+|-+)[ \t]*$")
 _BULLET = regex.compile(r"(?:[-+*]|(?P<num>[0-9]{1,9})[.)])(?=[ \t]|$)")
-_REFDEF = regex.compile(r"\[(?:[^\]\\\r\n]|\\.){1,999}\]:[ \t]*\S")
+_REFDEF = regex.compile(r"\[(?:[^\]\\\r\n]|\\.){1,999}\]:[ \t]*(?P<dest>\S)?")
 _TITLE_LINE = regex.compile(r"[ \t]*(?:\"[^\"]*\"|'[^']*'|\([^()]*\))[ \t]*$")
 _DELIM_ROW = regex.compile(r"\|?[ \t]*:?-+:?[ \t]*(?:\|[ \t]*:?-+:?[ \t]*)*\|?[ \t]*$")
 _HTML_RAW = regex.compile(r"<(?:script|pre|style|textarea)(?:[ \t>]|$)", regex.I)
@@ -68,7 +68,7 @@ class _Parser:
         # Containers: ("quote", 0) or ("item", content column).
         self.containers: list[tuple[str, int]] = []
         self.leaf: _Leaf | None = None
-        self.after_refdef = False
+        self.after_refdef = 0
 
     def run(self) -> list[Span]:
         text = self.text
@@ -144,8 +144,9 @@ class _Parser:
         c = text[p]
         if c == ">" or _ATX.match(text, p, end) or _FENCE.match(text, p, end) or _THEMATIC.match(text, p, end):
             return False
-        bm = _BULLET.match(text, p, end)
-        if bm and (bm.group("num") in (None, "1")) and not _rest_blank(text, bm.end(), end):
+        # Any list marker starts an item here: the rule that only "1." may
+        # interrupt a paragraph applies when all containers matched.
+        if _BULLET.match(text, p, end):
             return False
         if c == "<" and self._html_start(p, end, False):
             return False
@@ -194,6 +195,7 @@ class _Parser:
         leaf = self.leaf
         if p >= end:
             self._close_leaf()
+            self.after_refdef = 0
             return
         in_para = leaf is not None and leaf.kind == PARA
         if ind - col >= 4 and not in_para:
@@ -241,17 +243,21 @@ class _Parser:
             self._table_row(p, end)
             return
         if not in_para:
-            if c == "[" and _REFDEF.match(text, p, end):
+            if c == "[" and (rm := _REFDEF.match(text, p, end)):
                 self._close_leaf()
-                self.after_refdef = True
+                # 1: a title line may follow; 2: the destination is on the next line
+                self.after_refdef = 1 if rm.group("dest") else 2
                 return
-            if self.after_refdef and _TITLE_LINE.match(text, p, end):
-                self.after_refdef = False
+            if self.after_refdef == 2 and " " not in text[p:end].strip():
+                self.after_refdef = 1
+                return
+            if self.after_refdef == 1 and _TITLE_LINE.match(text, p, end):
+                self.after_refdef = 0
                 return
         self._paragraph_line(p, end, col)
 
     def _paragraph_line(self, p: int, end: int, col: int) -> None:
-        self.after_refdef = False
+        self.after_refdef = 0
         leaf = self.leaf
         if leaf is None or leaf.kind != PARA:
             self._close_leaf()
