@@ -1,0 +1,39 @@
+"""The profile changes the real checker's rankings (needs the shipped model)."""
+
+from __future__ import annotations
+
+import pytest
+
+from calami.model import default_model_path
+from calami.vocab.profile import Profile
+
+pytestmark = pytest.mark.skipif(not default_model_path().exists(), reason="shipped model not built yet")
+
+
+def _finding(checker, text, word):
+    return next(f for f in checker.check(text) if f.word == word)
+
+
+def test_accepted_fixes_rise_and_user_words_and_ignores_apply(tmp_path, model):
+    from calami.checker import Checker
+
+    text = "Please recieve the parcel and put it in the ofen before noon."
+    plain = Checker(model)
+    before = _finding(plain, text, "ofen")
+    assert len(before.suggestions) >= 2
+    second = before.suggestions[1].text
+    profile = Profile(tmp_path)
+    learnt = Checker(model, adaptations=[profile])
+    probabilities = []
+    for _ in range(4):
+        profile.record_replacement("ofen", second, "the", "before")
+        learnt = Checker(model, adaptations=[profile])
+        probabilities.append(_finding(learnt, text, "ofen").suggestions[0])
+    assert probabilities[-1].text == second  # the user's choice now ranks first
+    profile.add_word("recieve")
+    assert all(f.word != "recieve" for f in Checker(model, adaptations=[profile]).check(text))
+    confidence = before.confidence
+    for _ in range(3):
+        profile.ignore("ofen")
+    after = [f for f in Checker(model, adaptations=[profile]).check(text) if f.word == "ofen"]
+    assert not after or after[0].confidence < confidence
