@@ -107,3 +107,21 @@ async def test_broken_project_config_is_reported_and_defaults_used(tmp_path):
         assert any("calami.toml" in m.message for m in client.messages)
     finally:
         await stop(client)
+
+
+async def test_a_damaged_profile_is_moved_aside_and_the_user_told(tmp_path):
+    root = _project(tmp_path / "p")
+    profile_dir = tmp_path / "profile"
+    profile_dir.mkdir()
+    (profile_dir / "profile.msgpack").write_bytes(b"\xc1\xc1 torn")
+    client, _ = await start(profile_dir, [root])
+    try:
+        await until(lambda: any("damaged" in m.message for m in client.messages))
+        uri = open_doc(client, root / "a.md", "teh\n")
+        await until(lambda: published_for(client, uri, 1))
+        await client.workspace_execute_command_async(types.ExecuteCommandParams("calami.addUserWord", ["teh"]))
+        await until(lambda: list(client.diagnostics[uri]) == [])
+    finally:
+        await stop(client)
+    names = sorted(p.name for p in profile_dir.iterdir())
+    assert names[0] == "profile.msgpack" and names[1].startswith("profile.msgpack.corrupt-")
