@@ -26,6 +26,7 @@ _FOOTNOTE = regex.compile(r"\.\.[ \t]+\[(?:#[\w.-]*|\*|\d+|[\w.-]+)\](?=[ \t]|$)
 _SUBST_DEF = regex.compile(r"\.\.[ \t]+\|[^|]+\|")
 _TARGET_DEF = regex.compile(r"\.\.[ \t]+_")
 _BULLET = regex.compile(r"(?:[-*+\u2022\u2023\u2043]|\(?(?:\d+|[A-Za-z#]|[ivxlcdm]+)[.)])[ \t]+(?=\S)")
+_FIELD_START = regex.compile(r":(?:[^:\\\s]|\\.)(?:[^:\\\r\n]|\\.){0,200}:(?=[ \t]|$)")
 _VERSION_ARG = regex.compile(r"[ \t]*\S+")
 
 # Directive bodies that are code, data or configuration (docutils/Sphinx names; common practice).
@@ -126,6 +127,11 @@ class _Scanner:
             self.para_indent = ind
             self.para.append((p + 2, e))
             return
+        if c == ":" and _FIELD_START.match(text, p, e):
+            self._flush()  # each field of a field list is its own block
+            self.para_indent = ind
+            self.para.append((p, e))
+            return
         bm = _BULLET.match(text, p, e)
         if bm:
             self._flush()
@@ -179,12 +185,17 @@ class _Scanner:
             return
         self.para = []
         last_s, last_e = rows[-1]
+        if len(rows) == 1 and self.text[last_s:last_e].strip() == "::":
+            self.literal_pending = self.para_indent
+            return
         if self.text[last_s:last_e].rstrip().endswith("::"):
             self.literal_pending = self.para_indent
         self._emit(rows, kind)
 
     def _emit(self, rows: list[tuple[int, int]], kind: str) -> None:
-        spans = [(s, e, kind, i == 0) for i, (s, e) in enumerate(rows) if e > s]
+        spans = [(s, e, kind, False) for s, e in rows if e > s]
+        if spans:
+            spans[0] = (spans[0][0], spans[0][1], kind, True)
         if not spans:
             return
         holes = inline_holes(self.text, spans[0][0], spans[-1][1])
