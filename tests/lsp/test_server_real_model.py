@@ -14,6 +14,51 @@ from session import REAL_SERVER, open_doc, published_for, start, stop, until
 
 HAVE_MODEL = default_model_path().exists()
 
+# A tiny model built with the real pipeline, so `calami serve` runs the real
+# Checker end to end even before the shipped model exists.
+CORPUS = [
+    "The parser reads the file from disk and writes the result to the cache.",
+    "There is no cache for the result when the file is missing.",
+    "We loaded the file from disk, then we parsed it.",
+] * 5
+WORDS = ("the parser reads file from disk and writes result to cache there is no for when missing "
+         "we loaded then parsed it form farm a an of or").split()
+
+
+@pytest.fixture(scope="module")
+def tiny_model(tmp_path_factory):
+    from calami.model.build import BuildConfig, build
+    from calami.model.lexicon import GB, US
+
+    cfg = BuildConfig(extra_words=[(w, US | GB) for w in WORDS], corpus_lines=CORPUS,
+                      pairs=[("teh", "the"), ("recieve", "receive"), ("form", "from")], admit_min_count=1000)
+    model, header = build(cfg)
+    path = tmp_path_factory.mktemp("model") / "tiny.msgpack"
+    model.save(path, header)
+    return path
+
+
+async def test_calami_serve_with_the_real_checker(tmp_path, tiny_model):
+    root = tmp_path / "proj"
+    root.mkdir()
+    (root / ".git").mkdir()
+    client, _ = await start(tmp_path / "profile", [root], command=[*REAL_SERVER, "--model", str(tiny_model)],
+                            options={"debounceMs": 0})
+    try:
+        uri = open_doc(client, root / "a.md", "# Notes\n\nWe loaded teh file form disk.\n")
+        params = await until(lambda: published_for(client, uri, 1), timeout=60)
+        found = {d.data["word"]: d for d in params.diagnostics}
+        assert found["teh"].code == "calami.nonword" and found["teh"].data["suggestions"][0] == "the"
+        assert found["form"].code == "calami.realword" and "'from'" in found["form"].message
+        assert found["teh"].range == types.Range(types.Position(2, 10), types.Position(2, 13))
+        hover = await client.text_document_hover_async(
+            types.HoverParams(types.TextDocumentIdentifier(uri), types.Position(2, 20)))
+        assert "file … disk" in hover.contents.value
+        await client.workspace_execute_command_async(types.ExecuteCommandParams("calami.addUserWord", ["teh"]))
+        await until(lambda: [d.data["word"] for d in client.diagnostics[uri]] == ["form"])
+    finally:
+        await stop(client)
+
 
 @pytest.mark.parametrize("content", [None, b"", b"\x93NUMPY not a model", b"\xc1" * 64])
 def test_model_load_failure_is_one_line_naming_the_fix(tmp_path, content):

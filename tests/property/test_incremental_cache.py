@@ -84,3 +84,36 @@ def test_one_character_edit_rescores_one_sentence():
     assert doc.cache.tokenized_blocks == 1
     assert doc.cache.scored_sentences == 1
     assert second == full_check(doc.text, "markdown")
+
+
+_REAL: list = []
+
+
+def _real_checker():
+    """The real Checker on a tiny model built by the real pipeline (once)."""
+    if not _REAL:
+        from calami.checker import Checker
+        from calami.model.build import BuildConfig, build
+        from calami.model.lexicon import GB, US
+
+        words = ("the parser reads file from disk and writes result to cache came far away word often world "
+                 "receive we end form farm").split()
+        corpus = ["The parser reads the file from disk.", "We came from far away.", "The world is far."] * 5
+        cfg = BuildConfig(extra_words=[(w, US | GB) for w in words], corpus_lines=corpus,
+                          pairs=[("teh", "the"), ("recieve", "receive"), ("form", "from")], admit_min_count=1000)
+        model, _ = build(cfg)
+        _REAL.append(Checker(model))
+    return _REAL[0]
+
+
+@settings(max_examples=40, deadline=None)
+@given(initial=piece_text, steps=st.lists(edits(), min_size=1, max_size=8), kind=st.sampled_from(["markdown", "plain"]))
+def test_cached_findings_equal_a_full_check_with_the_real_checker(initial, steps, kind):
+    checker = _real_checker()
+    doc = Document("file:///t.md", kind, 1, initial, UTF16, kind)
+    for n, (a, b, new) in enumerate(steps, start=2):
+        positions = PositionMap(doc.text, UTF16)
+        rng = types.Range(positions.position(int(a * len(doc.text))), positions.position(int(b * len(doc.text))))
+        doc.apply([types.TextDocumentContentChangePartial(range=rng, text=new)], n)
+        cached = doc.cache.findings(doc.text, prose_spans(doc.text, kind), checker)
+        assert cached == checker.check(doc.text, prose_spans(doc.text, kind))
