@@ -60,10 +60,13 @@ class CommentCollector:
         self._base_indent = -1
 
     def line_comment(self, marker_start: int, body_start: int, body_end: int, doc: bool = False) -> None:
-        if not self._continues(marker_start):
+        """A ``//`` or ``#`` comment; full-line comments on consecutive lines form one block."""
+        own_line = _own_line(self.text, marker_start)
+        if not (own_line and self._continues(marker_start)):
             self._new_block()
         self._body_line(body_start, body_end, "doc" if doc else "comment")
-        self._prev_end = body_end
+        # A trailing comment (after code) never continues into the next line's comment.
+        self._prev_end = body_end if own_line else -1
 
     def block_comment(self, body_start: int, body_end: int, doc: bool = False) -> None:
         """A ``/* ... */`` body (markers already excluded)."""
@@ -179,6 +182,14 @@ class CommentCollector:
 _UNDERLINE = regex.compile(r"([=\-~^\"'`#*+])\1{2,}\s*$")
 _NUMPY_PARAM = regex.compile(r"\*{0,2}[\w.]+(?:\s*,\s*\*{0,2}[\w.]+)*\s+:\s*(?:\S[^\n]{0,200})?$")
 _ESCAPE = regex.compile(r"\\(?:x[0-9a-fA-F]{2}|u\{[0-9a-fA-F]{1,6}\}|u[0-9a-fA-F]{4}|U[0-9a-fA-F]{8}|[0-7]{1,3}|.)|\$\{[^}\n]{0,500}\}|%[-+ #0]*\d*(?:\.\d+)?[sdifxXrcoeEgGu%]|\{[\w.:!\[\]]{0,100}\}")
+
+
+def _own_line(text: str, pos: int) -> bool:
+    """True when only blanks precede ``pos`` on its line."""
+    i = pos - 1
+    while i >= 0 and text[i] in " \t":
+        i -= 1
+    return i < 0 or text[i] in "\r\n"
 
 
 def _escape_holes(text: str, start: int, end: int) -> list[tuple[int, int]]:
