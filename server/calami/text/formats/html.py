@@ -26,6 +26,7 @@ _SPECIAL = (("<!--", "-->"), ("<![CDATA[", "]]>"), ("<?", ">"), ("<!", ">"))
 SKIP_CONTENT = frozenset(
     "script style pre code textarea kbd samp var math svg template tt listing xmp plaintext".split()
 )
+_INLINE_CODE = frozenset("code kbd samp var tt math".split())
 BLOCK = frozenset(
     """address article aside blockquote body br caption center dd details dialog dir div dl dt
     fieldset figcaption figure footer form frame frameset h1 h2 h3 h4 h5 h6 head header hr html
@@ -75,9 +76,12 @@ def _markup_end(text: str, p: int, end: int, finders: dict[str, ForwardFinder]) 
     if tm is not None:
         name = tm.group("name").lower()
         if tm.group("close") is None and name in SKIP_CONTENT and not tm.group().endswith("/>"):
-            finder = _finder(finders, text, "</" + name, regex.compile(r"</" + regex.escape(name) + r"\s*>", regex.I), end)
+            finder = finders.get("</" + name)
+            if finder is None:
+                closer = regex.compile(r"</" + regex.escape(name) + r"\s*>", regex.I)
+                finder = finders["</" + name] = ForwardFinder(text, closer, end)
             hit = finder.find(tm.end())
-            return (hit[1] if hit else end), True
+            return (hit[1] if hit else end), name not in _INLINE_CODE
         return tm.end(), name in BLOCK
     for opener, closer in _SPECIAL:
         if text.startswith(opener, p):

@@ -15,7 +15,6 @@ import regex
 from calami.text.spans import Span
 
 _LINE_END = regex.compile(r"\r\n|\r|\n")
-_WS = " \t\f\v\u00a0\u3000\ufeff"
 
 
 @dataclass(frozen=True, slots=True)
@@ -75,10 +74,10 @@ def lines(text: str, start: int = 0, end: int | None = None) -> list[tuple[int, 
 
 
 def trim(text: str, start: int, end: int) -> tuple[int, int]:
-    """Shrink [start, end) so it neither starts nor ends with whitespace."""
-    while start < end and (text[start] in _WS or text[start] in "\r\n"):
+    """Shrink [start, end) so it neither starts nor ends with whitespace (or a BOM)."""
+    while start < end and (text[start].isspace() or text[start] == "\ufeff"):
         start += 1
-    while end > start and (text[end - 1] in _WS or text[end - 1] in "\r\n"):
+    while end > start and (text[end - 1].isspace() or text[end - 1] == "\ufeff"):
         end -= 1
     return start, end
 
