@@ -87,6 +87,7 @@ class Checker:
         self.thresholds = thresholds or Thresholds(p.nonword_hint, p.confident)
         self.realword_hint = max(self.thresholds.hint, p.realword_hint) if thresholds is None else self.thresholds.hint
         self.max_suggestions = max(1, max_suggestions)
+        self.channel_weight = p.channel_weight
         self.log_alpha = math.log(p.alpha)
         self.log_error = math.log(1.0 - p.alpha)
         ids = model.lexicon.ids
@@ -123,8 +124,10 @@ class Checker:
 
     def suggest(self, word: str, left: str = "", right: str = "", limit: int = 5) -> list[Suggestion]:
         """Ranked intended words for ``word`` in context; the word itself may come first."""
-        left_id = self._context_id(left, last=True)
-        right_id = self._context_id(right, last=False)
+        # No context given: compare candidates by their unigram probability,
+        # not by how often they start and end sentences.
+        left_id = self._context_id(left, last=True) if left.strip() else None
+        right_id = self._context_id(right, last=False) if right.strip() else None
         w = word.replace("’", "'").lower()
         look = self.model.lexicon.lookup(word, self.variant)
         hyps = self._candidate_hypotheses(w, left_id, right_id, word, every_candidate=True)
@@ -155,7 +158,8 @@ class Checker:
         capitalised_inside = (not sentence_start) and core[:1].isupper() and not core.isupper()
         hyps = self._candidate_hypotheses(w, left, right, core, every_candidate=False)
         if look.other_variant and look.key_id is not None:
-            h0 = self._h0_known(look.key_id, left, right) + math.log(1e-3)
+            # The project asked for the other spelling variant: keeping this form is a policy breach.
+            h0 = self._h0_known(look.key_id, left, right) + math.log(1e-6)
         else:
             h0 = self._h0_unknown(w, left, right, core, capitalised_inside)
         h0 += math.log1p(4.0 * self._ignored(word))
@@ -212,17 +216,34 @@ class Checker:
         boosts = self._correction_boosts(typed)
         hyps = []
         for c, lq in self._channel_candidates(w, every_candidate):
-            h = self.log_error + lq + self._lp(c, left) + self._lp(right, c)
+            h = self.log_error + self.channel_weight * lq + self._lp(c, left) + self._lp(right, c)
             h += boosts.get(self.model.lexicon.keys[c], 0.0)
             hyps.append((c, h))
+        hyps.extend(self._split_hypotheses(w, left, right))
         # Fixes the user accepted before that the index does not reach.
         lexicon = self.model.lexicon
         for chosen, bonus in boosts.items():
             kid = lexicon.ids.get(chosen.lower())
-            if kid is not None and all(kid != c for c, _ in hyps):
-                lq = self.model.channel.log_q(w, chosen.lower())
+            if kid is not None and all(kid != c for c, _ in hyps) and " " not in chosen:
+                lq = self.channel_weight * self.model.channel.log_q(w, chosen.lower())
                 hyps.append((kid, self.log_error + lq + self._lp(kid, left) + self._lp(right, kid) + bonus))
         return hyps
+
+    def _split_hypotheses(self, w: str, left: int | None, right: int | None) -> list[tuple[str, float]]:
+        """Two words run together ("alot" -> "a lot"): every split into two listed words."""
+        lexicon = self.model.lexicon
+        out = []
+        log_q = self.channel_weight * math.log(self.model.channel.split_share)
+        for i in range(1, len(w)):
+            a, b = w[:i], w[i:]
+            ka, kb = lexicon.ids.get(a), lexicon.ids.get(b)
+            if ka is None or kb is None or not (lexicon.flags[ka] & LOWER and lexicon.flags[kb] & LOWER):
+                continue
+            if (len(a) == 1 and a not in ("a", "i")) or (len(b) == 1 and b not in ("a", "i")):
+                continue
+            h = self.log_error + log_q + self._lp(ka, left) + self._lp(kb, ka) + self._lp(right, kb)
+            out.append((a + " " + b, h))
+        return out
 
     def _channel_candidates(self, w: str, every_candidate: bool) -> list[tuple[int, float]]:
         """Candidate key ids with log Q(w | c); cached per typed word."""
@@ -255,10 +276,14 @@ class Checker:
             q = self.model.channel.log_q(keys[typed_id], keys[intended_id])
             if key in self._confusable:
                 q = max(q, math.log(CONFUSABLE_Q))
+            q *= self.channel_weight
             self._q_cache[key] = q
         return q
 
-    def _lp(self, w: int, v: int) -> float:
+    def _lp(self, w: int | None, v: int | None) -> float:
+        """log P(w | v); ``v`` None is no context, ``w`` None a missing right neighbour (log 1)."""
+        if w is None:
+            return 0.0
         p = self.model.lm.prob(w, v)
         return math.log(p) if p > 0 else -50.0
 
@@ -285,20 +310,26 @@ class Checker:
     # --------------------------------------------------------------- ranking
 
     def _suggestions(self, typed_lower: str, hyps, total: float, typed: str) -> list[Suggestion]:
-        keys = self.model.lexicon.keys
         merged: dict[str, float] = {}
         for c, h in sorted(hyps, key=lambda x: -x[1]):
-            text = restore_case(typed, keys[c], self.model.lexicon)
+            text = self._display(typed, c)
             if text not in merged:
                 merged[text] = math.exp(h - total)
             if len(merged) >= self.max_suggestions:
                 break
         return [Suggestion(t, p) for t, p in merged.items()]
 
+    def _display(self, typed: str, candidate: int | str) -> str:
+        """A candidate (key id, or a two-word string) written in the typed word's case."""
+        if isinstance(candidate, str):
+            if len(typed) > 1 and typed.isupper():
+                return candidate.upper()
+            return candidate[:1].upper() + candidate[1:] if typed[:1].isupper() else candidate
+        return restore_case(typed, self.model.lexicon.keys[candidate], self.model.lexicon)
+
     def _rank(self, typed: str, hyps, h0: float, include_self: bool, limit: int) -> list[tuple[str, float]]:
         total = _logsumexp([h0] + [h for _, h in hyps]) if hyps else h0
-        keys = self.model.lexicon.keys
-        scored = [(restore_case(typed, keys[c], self.model.lexicon), h) for c, h in hyps]
+        scored = [(self._display(typed, c), h) for c, h in hyps]
         if include_self:
             scored.append((typed, h0))
         scored.sort(key=lambda x: -x[1])

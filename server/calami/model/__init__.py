@@ -33,6 +33,7 @@ class Params:
     confident: float = 0.95
     oov_log_prior: float = -16.0  # log P(an unknown word is meant as typed)
     max_nonword_candidates: int = 60
+    channel_weight: float = 1.0  # exponent on the error model against the language model
 
     def to_dict(self) -> dict[str, Any]:
         return dict(self.__dict__)

@@ -242,13 +242,14 @@ def build(cfg: BuildConfig) -> tuple[Model, dict]:
     log(f"language model: {len(counter.bigrams)} bigram types, {len(lm.col)} stored (count >= {cfg.lm_min_count}), D = {lm.discount:.3f}")
 
     chars, char_pairs = text_char_counts(zip(keys, prior))
-    channel = train_channel(cfg.pairs, chars, char_pairs)
+    by_prior = sorted(range(len(keys)), key=lambda k: -prior[k])
+    reference = [(keys[k], prior[k]) for k in by_prior[:5000]]
+    channel = train_channel(cfg.pairs, chars, char_pairs, reference_words=reference)
     log(f"error model: {len(cfg.pairs)} pairs; P(k edits) = {[round(x, 3) for x in channel.edits_k]}")
 
     candidates = CandidateIndex.build(keys)
     log(f"candidate index: {candidates.stats()}")
 
-    by_prior = sorted(range(len(keys)), key=lambda k: -prior[k])
     neighbours_start, neighbours = realword_neighbours(keys, prior, by_prior[: cfg.realword_top], candidates, cfg)
     log(f"real-word neighbours: {len(neighbours)} links")
 

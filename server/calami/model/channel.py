@@ -92,10 +92,14 @@ def align(typed: str, intended: str) -> list[tuple[str, str, str]] | None:
             continue
         if j > 0 and d[i][j] == d[i][j - 1] + 1:
             prev = intended[j - 2] if j > 1 else START
+            if j < m and intended[j] == intended[j - 1]:
+                prev = intended[j - 1]  # one of a doubled letter dropped: always "del[x, x]"
             edits.append(("del", prev, intended[j - 1]))
             j -= 1
             continue
         prev = typed[i - 2] if i > 1 else START
+        if i < n and typed[i] == typed[i - 1]:
+            prev = typed[i - 1]  # a letter typed twice: always "ins[x, x]"
         edits.append(("ins", prev, typed[i - 1]))
         i -= 1
     edits.reverse()
@@ -118,6 +122,9 @@ class ChannelModel:
     edits_k: list[float]  # P(k edits | error), k = 1, 2, 3+
     beta: float = 0.5
     alphabet: str = LETTERS
+    first_factor: float = 1.0  # how much rarer an edit is at the first letter than elsewhere
+    split_share: float = 0.01  # share of errors that are a missing space between two words
+    z_ref: float = 0.0  # Z of an average word in running text (0: normalise per word)
     _sub_total: dict[str, float] = field(default_factory=dict, repr=False)
     _ins_total: dict[str, float] = field(default_factory=dict, repr=False)
 
@@ -167,15 +174,17 @@ class ChannelModel:
 
     def total_rate(self, intended: str) -> float:
         """Z(c): the summed rate of every single edit applicable to ``intended``."""
-        z = self._ins_total.get(START, 0.0)
-        prev = START
         sub_total, ins_total = self._sub_total, self._ins_total
+        z = 0.0
+        prev = START
         for i, ch in enumerate(intended):
             z += sub_total.get(ch, 0.0) or self.beta * 0.1
             z += self.del_rate(prev, ch)
-            z += ins_total.get(ch, 0.0) or self.beta * 0.1
             if i + 1 < len(intended):
                 z += self.trans_rate(ch, intended[i + 1])
+            if i == 0:
+                z = (z + self._ins_total.get(START, 0.0)) * self.first_factor
+            z += ins_total.get(ch, 0.0) or self.beta * 0.1
             prev = ch
         return z
 
@@ -183,7 +192,10 @@ class ChannelModel:
         """log Q(typed | intended): the typo's probability given that an error occurred."""
         if typed == intended:
             return 0.0
-        log_z = math.log(self.total_rate(intended))
+        # Longer words offer more ways to go wrong *and* go wrong more often;
+        # the two cancel, so rates are compared on one scale (as in Kernighan,
+        # Church & Gale), normalised by the Z of an average word.
+        log_z = math.log(self.z_ref if self.z_ref > 0 else self.total_rate(intended))
         cost = self._cheapest_path(typed, intended, log_z)
         return self._log_first - cost
 
@@ -207,6 +219,9 @@ class ChannelModel:
         def cost(rate: float) -> float:
             return -(math.log(rate) - log_z) + more
 
+        # Edits that change the first letter are rarer than elsewhere.
+        first_penalty = -math.log(self.first_factor) if p == 0 else 0.0
+
         n, m = len(t), len(c)
         INF = float("inf")
         d = [[INF] * (m + 1) for _ in range(n + 1)]
@@ -218,17 +233,18 @@ class ChannelModel:
                 best = INF
                 prev_c = c[j - 2] if j > 1 else ctx_c
                 prev_t = t[i - 2] if i > 1 else ctx_t
+                at_first = first_penalty if j <= 1 else 0.0
                 if i > 0 and j > 0:
                     if t[i - 1] == c[j - 1]:
                         best = d[i - 1][j - 1]
                     else:
-                        best = d[i - 1][j - 1] + cost(self.sub_rate(t[i - 1], c[j - 1]))
+                        best = d[i - 1][j - 1] + cost(self.sub_rate(t[i - 1], c[j - 1])) + at_first
                 if j > 0:
-                    best = min(best, d[i][j - 1] + cost(self.del_rate(prev_c, c[j - 1])))
+                    best = min(best, d[i][j - 1] + cost(self.del_rate(prev_c, c[j - 1])) + at_first)
                 if i > 0:
-                    best = min(best, d[i - 1][j] + cost(self.ins_rate(prev_t, t[i - 1])))
+                    best = min(best, d[i - 1][j] + cost(self.ins_rate(prev_t, t[i - 1])) + (first_penalty if j == 0 else 0.0))
                 if i > 1 and j > 1 and t[i - 1] == c[j - 2] and t[i - 2] == c[j - 1]:
-                    best = min(best, d[i - 2][j - 2] + cost(self.trans_rate(c[j - 2], c[j - 1])))
+                    best = min(best, d[i - 2][j - 2] + cost(self.trans_rate(c[j - 2], c[j - 1])) + (first_penalty if j == 2 else 0.0))
                 d[i][j] = best
         # The first edit is not charged the "more edits" ratio.
         return d[n][m] - more
@@ -240,12 +256,13 @@ class ChannelModel:
             "del": self.dels, "ins": self.inss, "sub": self.subs, "trans": self.trans,
             "unigrams": self.unigrams, "bigrams": self.bigrams,
             "edits_k": self.edits_k, "beta": self.beta, "alphabet": self.alphabet,
+            "first_factor": self.first_factor, "split_share": self.split_share, "z_ref": self.z_ref,
         }
 
     @classmethod
     def from_dict(cls, d: dict) -> "ChannelModel":
         return cls(d["del"], d["ins"], d["sub"], d["trans"], d["unigrams"], d["bigrams"],
-                   list(d["edits_k"]), d["beta"], d["alphabet"])
+                   list(d["edits_k"]), d["beta"], d["alphabet"], d.get("first_factor", 1.0), d.get("split_share", 0.01), d.get("z_ref", 0.0))
 
 
 def train_channel(
@@ -255,6 +272,7 @@ def train_channel(
     *,
     beta: float = 0.5,
     extra_edits: Iterable[tuple[tuple[str, str, str], float]] = (),
+    reference_words: Sequence[tuple[str, float]] = (),
 ) -> ChannelModel:
     """Count edits in aligned pairs; scale text character counts to the pairs' size.
 
@@ -268,10 +286,16 @@ def train_channel(
     trans: Counter[str] = Counter()
     k_counts = Counter()
     correct_chars = 0
+    words = first_changed = splits = total_pairs = 0
     for typed, intended in pairs:
         typed, intended = typed.lower(), intended.lower()
+        total_pairs += 1
+        if typed == intended.replace(" ", "") and " " in intended:
+            splits += 1
         if typed == intended or " " in typed or " " in intended:
             continue
+        words += 1
+        first_changed += typed[:1] != intended[:1]
         edits = align(typed, intended)
         if not edits:
             continue
@@ -291,7 +315,17 @@ def train_channel(
     bigrams = {xy: n * scale for xy, n in text_bigrams.items()}
     total_k = sum(k_counts.values()) or 1
     edits_k = [max(k_counts[k] / total_k, 1e-4) for k in (1, 2, 3)]
-    return ChannelModel(dict(dels), dict(inss), dict(subs), dict(trans), unigrams, bigrams, edits_k, beta)
+    # Observed share of pairs with a changed first letter, against the share
+    # expected if errors fell on every position alike (1 / mean word length).
+    expected_first = words / correct_chars if correct_chars else 0.0
+    first_factor = min(1.0, max(0.05, (first_changed / words) / expected_first)) if words and expected_first else 1.0
+    split_share = max(splits / total_pairs, 1e-3) if total_pairs else 0.01
+    model = ChannelModel(dict(dels), dict(inss), dict(subs), dict(trans), unigrams, bigrams, edits_k, beta,
+                         first_factor=first_factor, split_share=split_share)
+    if reference_words:
+        weights = sum(w for _, w in reference_words) or 1.0
+        model.z_ref = sum(model.total_rate(word) * w for word, w in reference_words) / weights
+    return model
 
 
 def text_char_counts(words: Iterable[tuple[str, float]]) -> tuple[Counter[str], Counter[str]]:

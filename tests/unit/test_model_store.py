@@ -1,0 +1,110 @@
+"""Model file round trip and the one-line errors for bad files."""
+
+import subprocess
+import sys
+
+import msgpack
+import pytest
+
+from calami.errors import ModelError
+from calami.model import Model, load
+from calami.model.build import BuildConfig, build
+from calami.model.lexicon import GB, US
+from calami.model.store import FORMAT, read_model
+
+CORPUS = [
+    "The parser reads the file from disk and writes the result to the cache.",
+    "There is no cache for the result when the file is missing.",
+    "Their parser is faster than the old one, and the cache is smaller than before.",
+    "We loaded the file from disk, then we parsed it.",
+] * 5
+
+WORDS = ("the parser reads file from disk and writes result to cache there is no for when missing their faster "
+         "than old one smaller before we loaded then parsed it form farm a an of or were where").split()
+
+
+@pytest.fixture(scope="module")
+def tiny(tmp_path_factory):
+    cfg = BuildConfig(extra_words=[(w, US | GB) for w in WORDS] + [("colour", GB), ("color", US), ("Python", US | GB)],
+                      corpus_lines=CORPUS, pairs=[("teh", "the"), ("recieve", "receive"), ("form", "from")],
+                      admit_min_count=1000)
+    model, header = build(cfg)
+    path = tmp_path_factory.mktemp("model") / "tiny.msgpack"
+    model.save(path, header)
+    return model, path
+
+
+def test_round_trip_preserves_everything(tiny):
+    model, path = tiny
+    loaded = Model.from_payload(read_model(path)[1])
+    assert loaded.lexicon.keys == model.lexicon.keys
+    assert loaded.lexicon.flags == model.lexicon.flags
+    assert loaded.lexicon.cased == model.lexicon.cased
+    for name in ("ctx_count", "gamma", "cont", "prior", "row_start", "col", "cnt"):
+        assert list(getattr(loaded.lm, name)) == list(getattr(model.lm, name)), name
+    assert loaded.candidates.ids == model.candidates.ids
+    assert list(loaded.neighbours) == list(model.neighbours)
+    assert loaded.sound_index == model.sound_index
+    assert loaded.channel.to_dict() == model.channel.to_dict()
+    header = read_model(path)[0]
+    assert header["counts"]["keys"] == len(model.lexicon)
+    assert len(header["sha256"]) == 64
+
+
+def test_missing_file(tmp_path):
+    with pytest.raises(ModelError, match="not found"):
+        load(tmp_path / "nope.msgpack")
+
+
+def test_truncated_file(tiny, tmp_path):
+    _, path = tiny
+    bad = tmp_path / "truncated.msgpack"
+    bad.write_bytes(path.read_bytes()[: path.stat().st_size // 2])
+    with pytest.raises(ModelError, match="truncated or corrupt"):
+        load(bad)
+
+
+def test_flipped_byte_fails_the_checksum(tiny, tmp_path):
+    _, path = tiny
+    data = bytearray(path.read_bytes())
+    data[-100] ^= 0xFF
+    bad = tmp_path / "flipped.msgpack"
+    bad.write_bytes(bytes(data))
+    with pytest.raises(ModelError, match="checksum|corrupt"):
+        load(bad)
+
+
+def test_wrong_version(tmp_path):
+    bad = tmp_path / "future.msgpack"
+    bad.write_bytes(msgpack.packb({"format": FORMAT, "version": 99, "header": {}, "payload": b""}))
+    with pytest.raises(ModelError, match="version 99"):
+        load(bad)
+
+
+def test_not_a_model(tmp_path):
+    bad = tmp_path / "other.msgpack"
+    bad.write_bytes(msgpack.packb([1, 2, 3]))
+    with pytest.raises(ModelError, match="not a calami model"):
+        load(bad)
+
+
+def test_cli_prints_one_line_not_a_traceback(tmp_path):
+    bad = tmp_path / "garbage.msgpack"
+    bad.write_bytes(b"\x00\x01garbage")
+    proc = subprocess.run([sys.executable, "-m", "calami", "suggest", "--model", str(bad)],
+                          input="teh\n", capture_output=True, text=True)
+    assert proc.returncode == 2
+    assert proc.stderr.count("\n") == 1 and proc.stderr.startswith("calami: ")
+    assert "Traceback" not in proc.stderr
+
+
+def test_tiny_model_checks_context(tiny):
+    from calami.checker import Checker
+
+    model, _ = tiny
+    checker = Checker(model)
+    assert checker.suggest("teh")[0].text == "the"
+    variant = Checker(model, variant="en-US")
+    found = variant.check("The colour of the cache.")
+    assert [f.word for f in found] == ["colour"]
+    assert Checker(model, variant="en-GB").check("The colour of the cache.") == []
