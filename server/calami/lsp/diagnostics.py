@@ -56,6 +56,46 @@ def to_diagnostic(finding: Finding, doc: Document, settings: Settings) -> types.
     )
 
 
+def to_wire(finding: Finding, doc: Document, settings: Settings) -> dict[str, Any]:
+    """The same diagnostic as LSP JSON: publishing thousands of findings per
+    keystroke is dominated by building and unstructuring attrs objects."""
+    start = doc.positions.position(finding.start)
+    end = doc.positions.position(finding.end)
+    return {
+        "range": {"start": {"line": start.line, "character": start.character},
+                  "end": {"line": end.line, "character": end.character}},
+        "message": message(finding),
+        "severity": int(settings.severity(finding.kind)),
+        "code": CODES.get(finding.kind, f"calami.{finding.kind}"),
+        "source": SOURCE,
+        "data": {
+            "word": finding.word,
+            "kind": finding.kind,
+            "suggestions": [s.text for s in finding.suggestions[: settings.max_suggestions]],
+            "left": finding.left,
+            "right": finding.right,
+        },
+    }
+
+
+def wire_diagnostics(doc: Document, findings: list[Finding], settings: Settings) -> list[dict[str, Any]]:
+    """LSP JSON for all findings, reusing those before the first change since the last publish."""
+    key_settings = (settings.severity_nonword, settings.severity_realword, settings.max_suggestions)
+    old = doc.wire if doc.wire.get("settings") == key_settings else {}
+    limit = doc.dirty_from
+    fresh: dict[Any, Any] = {"settings": key_settings}
+    out = []
+    for f in findings:
+        item = old.get(f) if f.end < limit else None
+        if item is None:
+            item = to_wire(f, doc, settings)
+        fresh[f] = item
+        out.append(item)
+    doc.wire = fresh
+    doc.dirty_from = len(doc.text) + 1
+    return out
+
+
 def compute(doc: Document, text: str, version: int, checker: Any, settings: Settings, project: Any = None) -> list[Finding]:
     """Findings for one snapshot of a document (runs on the worker thread)."""
     if "\x00" in text:
@@ -80,7 +120,7 @@ class Scheduler:
         self,
         checker_for: Callable[[Document], Any],
         settings_for: Callable[[Document], Settings],
-        publish: Callable[[Document, list[types.Diagnostic]], None],
+        publish: Callable[[Document, list[dict[str, Any]]], None],
         project_for: Callable[[Document], Any] = lambda doc: None,
     ) -> None:
         self.project_for = project_for
@@ -89,7 +129,6 @@ class Scheduler:
         self.publish = publish
         self.executor = ThreadPoolExecutor(max_workers=1, thread_name_prefix="calami-check")
         self.pending: dict[str, asyncio.Task[Any]] = {}
-        self.results: dict[str, tuple[int, list[types.Diagnostic]]] = {}
         self.findings: dict[str, tuple[int, list[Finding]]] = {}
         self._warned: set[tuple[str, str]] = set()
 
@@ -107,36 +146,41 @@ class Scheduler:
 
     def forget(self, uri: str) -> None:
         self.cancel(uri)
-        self.results.pop(uri, None)
         self.findings.pop(uri, None)
 
-    async def current(self, doc: Document) -> list[types.Diagnostic] | None:
+    def stale(self) -> None:
+        """Words or settings changed: no stored result is current any more."""
+        self.findings.clear()
+
+    async def current(self, doc: Document) -> list[types.Diagnostic]:
         """Diagnostics for the document's current version (pull requests)."""
         while True:
-            cached = self.results.get(doc.uri)
+            cached = self.findings.get(doc.uri)
             if cached and cached[0] == doc.version:
-                return cached[1]
+                settings = self.settings_for(doc)
+                return [to_diagnostic(f, doc, settings) for f in cached[1]]
             version = doc.version
-            diagnostics = await self._check(doc)
-            if diagnostics is not None and doc.version == version:
-                return diagnostics
+            findings = await self._check(doc)
+            if findings is not None and doc.version == version:
+                settings = self.settings_for(doc)
+                return [to_diagnostic(f, doc, settings) for f in findings]
 
     async def _run(self, doc: Document, delay: float, push: bool) -> None:
         try:
             if delay > 0:
                 await asyncio.sleep(delay)
             started = time.perf_counter()
-            diagnostics = await self._check(doc)
-            if diagnostics is not None and push:
-                self.publish(doc, diagnostics)
-                log.debug("calami: %s v%d: %d diagnostics in %.1f ms", doc.uri, doc.version, len(diagnostics),
+            findings = await self._check(doc)
+            if findings is not None and push:
+                self.publish(doc, wire_diagnostics(doc, findings, self.settings_for(doc)))
+                log.debug("calami: %s v%d: %d diagnostics in %.1f ms", doc.uri, doc.version, len(findings),
                           (time.perf_counter() - started) * 1000)
         except asyncio.CancelledError:
             raise
         except Exception:  # keep serving; the traceback goes to stderr only
             log.exception("calami: checking %s failed", doc.uri)
 
-    async def _check(self, doc: Document) -> list[types.Diagnostic] | None:
+    async def _check(self, doc: Document) -> list[Finding] | None:
         version, text = doc.version, doc.text
         self._warn_once(doc, text)
         checker = self.checker_for(doc)
@@ -149,10 +193,8 @@ class Scheduler:
             return None
         if doc.version != version:
             return None  # an edit arrived meanwhile: never publish old findings
-        diagnostics = [to_diagnostic(f, doc, settings) for f in findings]
         self.findings[doc.uri] = (version, findings)
-        self.results[doc.uri] = (version, diagnostics)
-        return diagnostics
+        return findings
 
     def _warn_once(self, doc: Document, text: str) -> None:
         if "\x00" in text:

@@ -85,6 +85,10 @@ class Document:
     kind: str = "plain"
     ignored: set[str] = field(default_factory=set)  # "ignore in this document"
     cache: FindingsCache = field(default_factory=FindingsCache)
+    # Lowest offset changed since diagnostics were last sent: wire diagnostics
+    # of findings that end before it are still exact and are reused.
+    dirty_from: int = 0
+    wire: dict = field(default_factory=dict)
     _positions: PositionMap | None = None
 
     @property
@@ -104,9 +108,11 @@ class Document:
     def apply(self, changes: list[types.TextDocumentContentChangeEvent], version: int) -> None:
         """Apply all changes of one didChange, or none of them (ChangeError)."""
         text = self.text
+        dirty = self.dirty_from
         for change in changes:
             if isinstance(change, types.TextDocumentContentChangeWholeDocument) or getattr(change, "range", None) is None:
                 text = change.text
+                dirty = 0
                 continue
             positions = PositionMap(text, self.encoding)
             rng = change.range
@@ -120,5 +126,7 @@ class Document:
                     f"range end {rng.end.line}:{rng.end.character} is before start {rng.start.line}:{rng.start.character}"
                 )
             text = text[:start] + change.text + text[end:]
+            dirty = min(dirty, start)
         self.text = text
         self.version = version
+        self.dirty_from = dirty

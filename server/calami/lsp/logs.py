@@ -26,7 +26,8 @@ class ClientLogHandler(logging.Handler):
     """Forwards log records to the client as window/logMessage."""
 
     def __init__(self, server: Any, loop: asyncio.AbstractEventLoop) -> None:
-        super().__init__(logging.INFO)
+        # Same threshold as stderr: --log-level debug shows per-check timings in the editor too.
+        super().__init__(min(logging.INFO, logging.getLogger("calami").getEffectiveLevel()))
         self.server = server
         self.loop = loop
 

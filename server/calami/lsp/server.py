@@ -82,12 +82,16 @@ class CalamiServer(LanguageServer):
         base = self.folder_settings.get(folder, self.settings) if folder else self.settings
         return self.projects.checker_for(doc.path, base)
 
-    def _publish(self, doc: Document, diagnostics: list[types.Diagnostic]) -> None:
+    def _publish(self, doc: Document, diagnostics: list[dict[str, Any]]) -> None:
         if self.pull_mode or self.docs.get(doc.uri) is not doc:
             return
-        self.text_document_publish_diagnostics(
-            types.PublishDiagnosticsParams(uri=doc.uri, diagnostics=diagnostics, version=doc.version)
-        )
+        # Already LSP JSON: hand it to the transport as is (pygls' own notify
+        # would unstructure every diagnostic again through cattrs).
+        self.protocol._send_data({
+            "jsonrpc": "2.0",
+            "method": types.TEXT_DOCUMENT_PUBLISH_DIAGNOSTICS,
+            "params": {"uri": doc.uri, "version": doc.version, "diagnostics": diagnostics},
+        })
 
     def document(self, uri: Any) -> Document:
         if not isinstance(uri, str) or uri not in self.docs:
@@ -101,7 +105,7 @@ class CalamiServer(LanguageServer):
 
     def recheck_all(self) -> None:
         """Words or settings changed: every open document needs fresh findings."""
-        self.scheduler.results.clear()
+        self.scheduler.stale()
         for doc in self.docs.values():
             self.scheduler.schedule(doc, delay_ms=0)
         if self.pull_mode and _refresh_supported(self.client_capabilities):
