@@ -20,6 +20,7 @@ import hashlib
 import json
 import multiprocessing
 import os
+import re
 import subprocess
 import sys
 import time
@@ -29,8 +30,9 @@ sys.path.insert(0, _HERE)
 # The tokenizer must be the checkout's own (training and checking cut text alike).
 sys.path.insert(1, os.path.join(_HERE, "..", "..", "server"))
 
-from go_comments import comment_paragraphs  # noqa: E402
-from html_prose import clean, paragraphs  # noqa: E402
+from html_prose import CODE, clean, paragraphs  # noqa: E402
+from py_comments import source_paragraphs  # noqa: E402
+from slash_comments import comment_paragraphs  # noqa: E402
 from prose_filter import keep  # noqa: E402
 from sources import SOURCES, Source  # noqa: E402
 
@@ -49,7 +51,12 @@ def page_prose(job: tuple[str, str]) -> list[tuple[str, int]]:
     """Kept paragraphs of one page or source file with their word counts (runs in a worker)."""
     kind, path = job
     text = read_page(path)
-    found = paragraphs(text) if kind == "html" else [clean(p) for p in comment_paragraphs(text)]
+    if kind == "html":
+        found = paragraphs(text)
+    elif kind == "py":
+        found = [clean(markup_to_prose(p)) for p in source_paragraphs(text)]
+    else:
+        found = [clean(markup_to_prose(p)) for p in comment_paragraphs(text)]
     out = []
     for para in found:
         if "\ufffd" in para:
@@ -58,6 +65,15 @@ def page_prose(job: tuple[str, str]) -> list[tuple[str, int]]:
         if kept:
             out.append(kept)
     return out
+
+
+_BACKTICKED = re.compile(r"``[^`]+``|`[^`]+`")
+_EMPHASIS = re.compile(r"\*\*(?=\S)|(?<=\S)\*\*")
+
+
+def markup_to_prose(text: str) -> str:
+    """Comment and docstring markup: `code` (Markdown, reST) becomes CODE, **bold** plain."""
+    return _EMPHASIS.sub("", _BACKTICKED.sub(CODE, text))
 
 
 def digest(text: str) -> bytes:

@@ -25,7 +25,7 @@ COMMON_EXCLUDE = re.compile(
 )
 
 
-SUFFIXES = {"html": (".html", ".htm", ".html.gz"), "go": (".go",)}
+SUFFIXES = {"html": (".html", ".htm", ".html.gz"), "go": (".go",), "rust": (".rs",), "py": (".py",)}
 
 
 @dataclass(frozen=True)
@@ -38,7 +38,7 @@ class Source:
     roots: tuple[str, ...]
     exclude: str = ""  # extra regex on the full path
     notes: str = ""
-    kind: str = "html"  # "html" pages, or "go" source files (comment prose)
+    kind: str = "html"  # "html" pages, or "go" / "rust" / "py" source files (comment prose)
 
     def files(self) -> Iterator[str]:
         """Pages (or source files) of this source, in a stable order; symlinks are not followed."""
@@ -131,6 +131,36 @@ SOURCES: list[Source] = [
         exclude=r"_test\.go$|/testdata/|/vendor/",
         notes="comment prose of the Go standard library and tools",
         kind="go",
+    ),
+    Source(
+        "python3.11-src",
+        "libpython3.11-stdlib",
+        "PSF-2.0",
+        ("/usr/lib/python3.11",),
+        exclude=r"/(?:test|tests|idle_test|site-packages|dist-packages|__pycache__|config-3[^/]*)/",
+        notes="docstrings and comments of the standard library (files of libpython3.11-minimal too)",
+        kind="py",
+    ),
+    *(
+        Source(f"go-{name}", package, licence, (root,), exclude=r"_test\.go$|/testdata/|/vendor/",
+               notes="comment prose", kind="go")
+        for name, package, licence, root in (
+            ("x-tools", "golang-golang-x-tools-dev", "BSD-3-Clause", "/usr/share/gocode/src/golang.org/x/tools"),
+            ("x-net", "golang-golang-x-net-dev", "BSD-3-Clause", "/usr/share/gocode/src/golang.org/x/net"),
+            ("x-crypto", "golang-golang-x-crypto-dev", "BSD-3-Clause", "/usr/share/gocode/src/golang.org/x/crypto"),
+            ("protobuf", "golang-google-protobuf-dev", "BSD-3-Clause",
+             "/usr/share/gocode/src/google.golang.org/protobuf"),
+            ("grpc", "golang-google-grpc-dev", "Apache-2.0", "/usr/share/gocode/src/google.golang.org/grpc"),
+        )
+    ),
+    *(
+        Source(f"rust-{crate}", f"librust-{crate}-dev", "MIT or Apache-2.0", (f"/usr/share/cargo/registry/{crate}-{version}",),
+               exclude=r"/(?:tests|benches)/", notes="doc comments and comments", kind="rust")
+        for crate, version in (
+            ("tokio", "1.24.2"), ("serde", "1.0.152"), ("syn", "1.0.107"), ("regex", "1.7.1"), ("clap", "4.0.32"),
+            ("rayon", "1.6.1"), ("hyper", "0.14.19"), ("futures", "0.3.21"), ("itertools", "0.10.3"),
+            ("nom", "7.1.1"), ("rand", "0.8.5"), ("chrono", "0.4.23"), ("bytes", "1.2.1"), ("log", "0.4.17"),
+        )
     ),
 ]
 

@@ -1,9 +1,10 @@
-"""Go source file -> paragraphs of its comment prose.
+"""Go or Rust source file -> paragraphs of its comment prose.
 
-The Go standard library documents itself in comments: careful English that
-sits right beside code, the very kind of text calami checks in source files.
-Indented comment lines are code examples (Go doc comment convention) and are
-dropped; compiler directives, licence headers and generated files too.
+The Go standard library and Rust crates document themselves in comments:
+careful English right beside code, the very kind of text calami checks in
+source files.  Indented comment lines (Go's convention for code) and fenced
+blocks (Rust doc comments are Markdown) are code and are dropped; so are
+compiler directives, licence headers and generated files.
 """
 
 from __future__ import annotations
@@ -11,7 +12,7 @@ from __future__ import annotations
 import re
 
 _DIRECTIVE = re.compile(r"^(?:go:|line |export |extern |\+build|nolint|lint:|#cgo)")
-_GENERATED = re.compile(r"^// Code generated .* DO NOT EDIT\.$", re.MULTILINE)
+_GENERATED = re.compile(r"^// (?:Code generated .* DO NOT EDIT\.|This file is (?:auto-?)?generated)", re.MULTILINE)
 _LIST_ITEM = re.compile(r"^\s*(?:[-*+•]|\d+[.)])\s+")
 
 
@@ -33,7 +34,9 @@ def comment_blocks(source: str) -> list[list[str]]:
             continue
         if line.startswith("//"):
             text = line[2:]
-            if _DIRECTIVE.match(text):
+            if text.startswith(("/", "!")) and not text.startswith("//"):
+                text = text[1:]  # Rust doc comment: /// or //!
+            elif _DIRECTIVE.match(text):
                 continue
             current.append(text[1:] if text.startswith(" ") else text)
             continue
@@ -60,13 +63,22 @@ def block_paragraphs(lines: list[str]) -> list[str]:
             out.append(" ".join(current))
             current.clear()
 
+    fenced = False
     for text in lines:
+        if text.lstrip().startswith(("```", "~~~")):
+            flush()
+            fenced = not fenced
+            continue
+        if fenced:
+            continue
         is_item = bool(_LIST_ITEM.match(text))
         if not text.strip() or (text.startswith(("\t", "  ")) and not is_item):
             flush()
-        elif text.startswith("# "):  # doc comment heading
+        elif text.startswith("#"):  # doc comment (Go) or Markdown (Rust) heading
             flush()
-            out.append(text[2:].strip())
+            out.append(text.lstrip("#").strip())
+        elif text.startswith("[") and "]:" in text:  # Markdown link definition
+            flush()
         else:
             if is_item:
                 flush()
@@ -77,7 +89,7 @@ def block_paragraphs(lines: list[str]) -> list[str]:
 
 
 def comment_paragraphs(source: str) -> list[str]:
-    """Prose paragraphs of the comments of one Go file (none for generated files)."""
+    """Prose paragraphs of the comments of one Go or Rust file (none for generated files)."""
     if _GENERATED.search(source):
         return []
     out: list[str] = []
