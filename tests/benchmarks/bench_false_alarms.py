@@ -34,37 +34,49 @@ CACHE = REPO / "build" / "false-alarm-sdists"
 OUTPUT = REPO / "build" / "false-alarms.json"
 
 # Popular packages whose sdists ship Markdown or reStructuredText docs
-# (versions pinned so the figures can be reproduced).
+# (versions pinned so the figures can be reproduced).  None of them is among
+# the model's training sources (models/recipe/sources.py); main() checks.
 PACKAGES = [
-    ("requests", "2.34.2"),
-    ("flask", "3.1.3"),
-    ("click", "8.5.1"),
-    ("attrs", "26.1.0"),
-    ("rich", "15.0.0"),
-    ("httpx", "0.28.1"),
-    ("jinja2", "3.1.6"),
     ("black", "26.10.1"),
-    ("pytest", "9.2.0"),
-    ("werkzeug", "3.1.9"),
-    ("urllib3", "2.8.0"),
+    ("coverage", "7.17.3"),
+    ("httpx", "0.28.1"),
+    ("marshmallow", "4.4.0"),
+    ("more-itertools", "11.2.1"),
     ("packaging", "26.3"),
+    ("pluggy", "1.7.0"),
+    ("rich", "15.0.0"),
+    ("structlog", "26.1.0"),
+    ("tox", "4.67.13"),
+    ("trio", "0.35.0"),
+    ("urllib3", "2.8.0"),
 ]
 _CHANGELOG = re.compile(r"(change|history|news|release|changelog)", re.IGNORECASE)
 _SKIP_DIRS = re.compile(r"/(tests?|testing|fixtures?)/")
 
 
-def _sdist(name: str, version: str) -> Path:
-    pattern = re.compile(rf"^{re.escape(name)}-{re.escape(version)}\.(tar\.gz|zip)$", re.IGNORECASE)
-    CACHE.mkdir(parents=True, exist_ok=True)
+def _cached(name: str, version: str) -> Path | None:
+    wanted = f"{name}-{version}".replace("-", "_").lower()
     for path in CACHE.iterdir():
-        if pattern.match(path.name.replace("_", "-")) or pattern.match(path.name):
+        stem = re.sub(r"\.(tar\.gz|zip)$", "", path.name).replace("-", "_").lower()
+        if stem == wanted:
             return path
-    subprocess.run(
-        [sys.executable, "-m", "pip", "download", "--quiet", "--no-deps", "--no-binary", ":all:",
-         "-d", str(CACHE), f"{name}=={version}"],
-        check=True,
-    )
-    return _sdist(name, version)
+    return None
+
+
+def _sdist(name: str, version: str) -> Path:
+    """The cached sdist, downloaded with pip on first use."""
+    CACHE.mkdir(parents=True, exist_ok=True)
+    found = _cached(name, version)
+    if found is None:
+        subprocess.run(
+            [sys.executable, "-m", "pip", "download", "--quiet", "--no-deps", "--no-binary", ":all:",
+             "-d", str(CACHE), f"{name}=={version}"],
+            check=True,
+        )
+        found = _cached(name, version)
+    if found is None:
+        raise SystemExit(f"pip did not leave an sdist of {name} {version} in {CACHE}")
+    return found
 
 
 def _documents(archive: Path):
@@ -91,6 +103,11 @@ def main() -> None:
     parser.add_argument("--model")
     parser.add_argument("--sample", type=int, default=40)
     args = parser.parse_args()
+
+    trained = set(re.findall(r'Source\("([^"]+)"', (REPO / "models" / "recipe" / "sources.py").read_text()))
+    overlap = trained & {name for name, _ in PACKAGES}
+    if overlap:
+        raise SystemExit(f"these packages' docs are training sources, not a fair test: {sorted(overlap)}")
 
     from calami.commands.check import check_document, default_checker_factory
     from calami.report import locate
