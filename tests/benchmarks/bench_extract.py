@@ -100,10 +100,32 @@ def _time(kind: str, text: str, repeat: int) -> float:
     return best
 
 
+def _read_corpus(pattern: str, size: int) -> str:
+    import glob
+
+    parts: list[str] = []
+    total = 0
+    for path in sorted(glob.glob(pattern, recursive=True)):
+        try:
+            with open(path, encoding="utf-8") as f:
+                chunk = f.read()
+        except (OSError, UnicodeDecodeError):
+            continue
+        parts.append(chunk)
+        total += len(chunk)
+        if total >= size:
+            break
+    return "".join(parts)[:size]
+
+
 def main() -> None:
     ap = argparse.ArgumentParser(description=__doc__)
     ap.add_argument("--size-mb", type=float, default=1.0)
     ap.add_argument("--repeat", type=int, default=5)
+    ap.add_argument(
+        "--corpus", action="append", default=[], metavar="KIND=GLOB",
+        help="also time real files: the first --size-mb of the files matching GLOB, read as KIND",
+    )
     args = ap.parse_args()
     size = int(args.size_mb * 1_000_000)
     print(f"{'kind':<11} {'chars':>9} {'best ms':>9} {'MB/s':>7}   adversarial ms (backticks, unclosed)")
@@ -113,6 +135,15 @@ def main() -> None:
         adv = [_time(kind, t, 1) * 1000 for t in adversarial(kind).values()]
         mbs = len(text.encode("utf-8")) / 1e6 / best
         print(f"{kind:<11} {len(text):>9} {best * 1000:>9.1f} {mbs:>7.1f}   {adv[0]:.0f}, {adv[1]:.0f}")
+    for spec in args.corpus:
+        kind, _, pattern = spec.partition("=")
+        text = _read_corpus(pattern, size)
+        if not text:
+            print(f"{spec}: no readable files")
+            continue
+        best = _time(kind, text, args.repeat)
+        mbs = len(text.encode("utf-8")) / 1e6 / best
+        print(f"real {kind:<6} {len(text):>9} {best * 1000:>9.1f} {mbs:>7.1f}   ({pattern})")
     try:
         from pygments.lexers import PythonLexer
     except ImportError:

@@ -82,13 +82,18 @@ class _Parser:
     def _line(self, start: int, end: int) -> None:
         text = self.text
         leaf = self.leaf
-        # Fast path: no containers, a letter first: only a paragraph line.
-        if not self.containers and start < end and text[start].isalpha():
-            if leaf is None or leaf.kind == PARA:
-                self._paragraph_line(start, end, 0)
-                return
-            if leaf.kind in (FENCE, HTML, MATH):
+        if not self.containers:
+            # Fast paths for the common top-level lines (no container to match).
+            if leaf is not None and leaf.kind in (FENCE, HTML, MATH):
                 self._in_leaf(start, end, start)
+                return
+            if start == end:
+                if leaf is not None and leaf.kind != ICODE:
+                    self._close_leaf()
+                self.after_refdef = 0
+                return
+            if text[start].isalpha() and (leaf is None or leaf.kind == PARA):
+                self._paragraph_line(start, end, 0)
                 return
         pos, col, matched = self._match_containers(start, end)
         all_matched = matched == len(self.containers)

@@ -82,25 +82,19 @@ def _shell(text: str, strings: bool) -> list[Span]:
 
 
 def _heredoc(text: str, m: "regex.Match[str]", sink: CommentCollector, strings: bool) -> int:
-    """Skip a here-document body; returns where scanning resumes."""
+    """Skip a here-document body; returns where scanning resumes (after its end line)."""
     word = m.group("word")
-    dash = m.group("dash") is not None
     body_start = _line_end(text, m.end())
     if body_start >= len(text):
         return len(text)
     body_start += 2 if text.startswith("\r\n", body_start) else 1
-    body_end = len(text)
-    resume = len(text)
-    for s, e, nxt in iter_lines(text, body_start):
-        line = text[s:e].lstrip("\t") if dash else text[s:e]
-        if line == word:
-            body_end, resume = s, e
-            break
+    tabs = "\t*" if m.group("dash") is not None else ""
+    end_line = regex.compile(r"(?m)^" + tabs + regex.escape(word) + r"(?=\r\n|\r|\n|\Z)")
+    hit = end_line.search(text, body_start)
+    body_end = hit.start() if hit else len(text)
     if strings:
         sink.string(body_start, body_end, "string")
-    # Anything after the operator on its own line (pipes, comments) is scanned normally
-    # only in the simple case; the body itself is never shell code.
-    return resume
+    return hit.end() if hit else len(text)
 
 
 def _toml(text: str, strings: bool) -> list[Span]:

@@ -139,16 +139,13 @@ class ForwardFinder:
     an unclosed construct repeated n times costs O(n), not O(n^2).
     """
 
-    __slots__ = ("_text", "_search", "_last_from", "_last_hit", "_end")
+    __slots__ = ("_text", "_pattern", "_needle", "_last_from", "_last_hit", "_end")
 
     def __init__(self, text: str, needle: "str | regex.Pattern[str]", end: int | None = None) -> None:
         self._text = text
         self._end = len(text) if end is None else end
-        if isinstance(needle, str):
-            pattern = regex.compile(regex.escape(needle))
-        else:
-            pattern = needle
-        self._search = pattern.search
+        self._needle = needle if isinstance(needle, str) else ""
+        self._pattern = None if isinstance(needle, str) else needle
         self._last_from = -1
         self._last_hit: tuple[int, int] | None = None
 
@@ -160,10 +157,15 @@ class ForwardFinder:
                 return None
             if hit[0] >= pos:
                 return hit
-        m = self._search(self._text, pos, self._end)
+        if self._pattern is None:
+            i = self._text.find(self._needle, pos, self._end)
+            hit = (i, i + len(self._needle)) if i >= 0 else None
+        else:
+            m = self._pattern.search(self._text, pos, self._end)
+            hit = (m.start(), m.end()) if m else None
         self._last_from = pos
-        self._last_hit = (m.start(), m.end()) if m else None
-        return self._last_hit
+        self._last_hit = hit
+        return hit
 
 
 def cut(text: str, spans: "list[tuple[int, int, str, bool]]", holes: list[tuple[int, int]]) -> list[Span]:
@@ -176,8 +178,22 @@ def cut(text: str, spans: "list[tuple[int, int, str, bool]]", holes: list[tuple[
     a new sentence context.  ``spans`` are (start, end, kind, breaks_before) rows, sorted and
     non-overlapping.
     """
-    cuts = sorted(h for h in holes if h[1] > h[0]) if holes else []
     out: list[Span] = []
+    if not holes:
+        carry = False
+        for start, end, kind, breaks in spans:
+            if end > start and not (text[start].isspace() or text[end - 1].isspace() or "\ufeff" in (text[start], text[end - 1])):
+                out.append(Span(start, end, kind, breaks or carry))
+                carry = False
+                continue
+            s, e = trim(text, start, end)
+            if e > s:
+                out.append(Span(s, e, kind, breaks or carry))
+                carry = False
+            else:
+                carry = carry or breaks
+        return out
+    cuts = sorted(h for h in holes if h[1] > h[0])
     carry = False
     i = 0
     nh = len(cuts)
