@@ -167,6 +167,12 @@ def test_python_numpy_style_and_attribute_docstrings():
     ]
 
 
+def test_python_strings_in_brackets_are_not_docstrings():
+    src = 'x = (\n    "implicit concatenation part"\n    "second part"\n)\nfoo(\n    "argument text"\n)\n'
+    assert texts(src, "python") == []
+    assert texts(src, "python", strings=True) == ["implicit concatenation part", "second part", "argument text"]
+
+
 def test_python_string_escapes_are_holes():
     src = 'msg = "Hello\\nWorld %s and {name}"\nb = b"bytes are not prose"\n'
     assert texts(src, "python", strings=True) == ["Hello", "World", "and"]

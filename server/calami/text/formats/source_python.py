@@ -94,9 +94,12 @@ def _is_docstring(text: str, start: int, end: int, seen_code: bool) -> bool:
             continue
         if stripped.endswith(":"):
             return True
-        # attribute docstring: a simple assignment right above
+        # attribute docstring: a complete simple assignment right above
+        if stripped.endswith(_CONTINUES):
+            return False
         return bool(_ASSIGNMENT.match(stripped))
     return True
 
 
+_CONTINUES = tuple("([{,\\+-*/%=&|<>@")
 _ASSIGNMENT = regex.compile(r"[A-Za-z_][\w.]*\s*(?::[^=]{1,200})?=[^=]")
