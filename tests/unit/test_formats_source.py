@@ -276,6 +276,8 @@ def test_comment_words_agree_with_pygments(ext: str):
         "<<EOF\n" * 5_000,
         "\x00\x01\udcff\ufffd binary junk",
         "`" * 100_000,
+        "/[" * 30_000,  # JavaScript: every '/' may open a regex literal with an unclosed class
+        '"a\\' * 30_000,  # one long line of strings: line ends must not be searched again and again
     ],
 )
 def test_adversarial_inputs_do_not_raise(kind: str, src: str):

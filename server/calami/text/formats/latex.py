@@ -14,7 +14,7 @@ from __future__ import annotations
 
 import regex
 
-from calami.text.formats.textscan import ExtractOptions, ForwardFinder, SpanList
+from calami.text.formats.textscan import ExtractOptions, ForwardFinder, LineEnds, SpanList
 from calami.text.spans import Span
 
 _NEXT = regex.compile(r"\\|%|\$|\{|\}|(?:\r\n|\r|\n)[ \t]*(?:\r\n|\r|\n)|&|~")
@@ -103,6 +103,7 @@ class _Scanner:
         self.out = SpanList(text)
         self.finders: dict[str, ForwardFinder] = {}
         self.braces = _match_braces(text)
+        self.line_end = LineEnds(text)
         # Group stack: (prose?, span kind) to restore when the group closes.
         self.groups: list[tuple[bool, str]] = []
         self.kind = "text"
@@ -129,7 +130,7 @@ class _Scanner:
             if c == "\\":
                 pos = self._command(p)
             elif c == "%":
-                e = _line_end(text, p)
+                e = self.line_end.at(p)
                 pos = e
             elif c == "$":
                 pos = self._dollar_math(p)
@@ -249,7 +250,7 @@ class _Scanner:
             # a single-token argument such as \input file or \label x
             return pos
         close = self.braces.get(rm.end() - 1, -1)
-        return close + 1 if close >= 0 else _line_end(self.text, pos)
+        return close + 1 if close >= 0 else self.line_end.at(pos)
 
     def _until(self, pos: int, closer: str) -> int:
         finder = self.finders.get(closer)
@@ -278,16 +279,11 @@ class _Scanner:
         delim = text[pos]
         if delim == "{":
             close = self.braces.get(pos, -1)
-            return close + 1 if close >= 0 else _line_end(text, pos)
-        close = text.find(delim, pos + 1, _line_end(text, pos + 1))
-        return close + 1 if close >= 0 else _line_end(text, pos)
+            return close + 1 if close >= 0 else self.line_end.at(pos)
+        close = text.find(delim, pos + 1, self.line_end.at(pos + 1))
+        return close + 1 if close >= 0 else self.line_end.at(pos)
 
 
-def _line_end(text: str, p: int) -> int:
-    n = text.find("\n", p)
-    limit = n if n >= 0 else len(text)
-    r = text.find("\r", p, limit)
-    return r if r >= 0 else limit
 
 
 _BRACES = regex.compile(r"\\[\s\S]|%[^\r\n]*|[{}]")

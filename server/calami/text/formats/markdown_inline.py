@@ -127,13 +127,13 @@ def _angle(text: str, p: int, end: int, holes: list[tuple[int, int]], finders: d
         return p + 1
     opener = tm.group()
     if opener == "<!--":
-        closer, key = "-->", "-->"
+        key = "-->"
     elif opener == "<?":
-        closer, key = "?>", "?>"
+        key = "?>"
     elif opener == "<![CDATA[":
-        closer, key = "]]>", "]]>"
+        key = "]]>"
     elif opener.startswith("<!"):
-        closer, key = ">", ">"
+        key = ">"
     else:
         if not text.startswith(">", tm.end()):
             return p + 1

@@ -12,7 +12,7 @@ from __future__ import annotations
 import regex
 
 from calami.text.formats.comments import CommentCollector
-from calami.text.formats.textscan import ExtractOptions
+from calami.text.formats.textscan import ExtractOptions, LineEnds
 from calami.text.spans import Span
 
 _COMMON = r"(?P<line>//)|(?P<block>/\*)"
@@ -44,6 +44,7 @@ def extract(text: str, options: ExtractOptions | None = None, *, language: str =
     strings = bool(options and options.strings)
     tokens = _COMPILED[language]
     sink = CommentCollector(text, code_indent=language == "go")
+    line_end = LineEnds(text).at
     n = len(text)
     pos = 0
     while pos < n:
@@ -53,7 +54,7 @@ def extract(text: str, options: ExtractOptions | None = None, *, language: str =
         p = m.start()
         group = m.lastgroup
         if group == "line":
-            e = _line_end(text, p)
+            e = line_end(p)
             q = p + 2
             doc = False
             if q < n and text[q] == "/" and not text.startswith("//", q):
@@ -74,7 +75,7 @@ def extract(text: str, options: ExtractOptions | None = None, *, language: str =
             if language == "rust":
                 sm = _DQ_MULTI.match(text, p)
             else:
-                sm = (_DQ_LINE if group == "dq" else _SQ_STR).match(text, p, _line_end(text, p))
+                sm = (_DQ_LINE if group == "dq" else _SQ_STR).match(text, p, line_end(p))
             e = sm.end()
             if strings:
                 sink.string(p + 1, _content_end(text, p + 1, e, text[p]))
@@ -109,18 +110,12 @@ def extract(text: str, options: ExtractOptions | None = None, *, language: str =
         else:  # "/" in JavaScript: division or a regex literal
             pos = p + 1
             if _regex_allowed(text, p):
-                rm = _REGEX_LITERAL.match(text, p, _line_end(text, p))
+                rm = _REGEX_LITERAL.match(text, p, min(line_end(p), p + 500))
                 if rm:
                     pos = rm.end()
     return sink.spans()
 
 
-def _line_end(text: str, p: int) -> int:
-    n = text.find("\n", p)
-    r = text.find("\r", p, n if n >= 0 else len(text))
-    if r >= 0:
-        return r
-    return n if n >= 0 else len(text)
 
 
 _BLOCK_TOKENS = regex.compile(r"/\*|\*/")

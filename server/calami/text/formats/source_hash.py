@@ -13,7 +13,7 @@ from __future__ import annotations
 import regex
 
 from calami.text.formats.comments import CommentCollector
-from calami.text.formats.textscan import ExtractOptions, indent_of, iter_lines, trim
+from calami.text.formats.textscan import ExtractOptions, LineEnds, indent_of, iter_lines, trim
 from calami.text.spans import Span
 
 _SHELL = regex.compile(
@@ -43,15 +43,11 @@ def extract(text: str, options: ExtractOptions | None = None, *, language: str =
     return _shell(text, strings)
 
 
-def _line_end(text: str, p: int) -> int:
-    n = text.find("\n", p)
-    limit = n if n >= 0 else len(text)
-    r = text.find("\r", p, limit)
-    return r if r >= 0 else limit
 
 
 def _shell(text: str, strings: bool) -> list[Span]:
     sink = CommentCollector(text)
+    line_end = LineEnds(text).at
     n = len(text)
     pos = 0
     while pos < n:
@@ -63,7 +59,7 @@ def _shell(text: str, strings: bool) -> list[Span]:
         if group == "esc":
             pos = m.end()
         elif group == "comment":
-            e = _line_end(text, p)
+            e = line_end(p)
             if not (p == 0 and text.startswith("#!")):
                 sink.line_comment(p, p + 1, e)
             pos = e
@@ -84,7 +80,7 @@ def _shell(text: str, strings: bool) -> list[Span]:
 def _heredoc(text: str, m: "regex.Match[str]", sink: CommentCollector, strings: bool) -> int:
     """Skip a here-document body; returns where scanning resumes (after its end line)."""
     word = m.group("word")
-    body_start = _line_end(text, m.end())
+    body_start = LineEnds(text).at(m.end())
     if body_start >= len(text):
         return len(text)
     body_start += 2 if text.startswith("\r\n", body_start) else 1
@@ -99,6 +95,7 @@ def _heredoc(text: str, m: "regex.Match[str]", sink: CommentCollector, strings: 
 
 def _toml(text: str, strings: bool) -> list[Span]:
     sink = CommentCollector(text)
+    line_end = LineEnds(text).at
     n = len(text)
     pos = 0
     while pos < n:
@@ -108,7 +105,7 @@ def _toml(text: str, strings: bool) -> list[Span]:
         p = m.start()
         group = m.lastgroup
         if group == "comment":
-            e = _line_end(text, p)
+            e = line_end(p)
             sink.line_comment(p, p + 1, e)
             pos = e
             continue
@@ -117,7 +114,7 @@ def _toml(text: str, strings: bool) -> list[Span]:
             close = _find_triple(text, p + 3, quote)
             start, end, pos = p + 3, close, min(n, close + 3)
         else:
-            sm = (_TOML_DQ if group == "dq" else _TOML_SQ).match(text, p, _line_end(text, p))
+            sm = (_TOML_DQ if group == "dq" else _TOML_SQ).match(text, p, line_end(p))
             e = sm.end()
             start, end, pos = p + 1, (e - 1 if e - 1 > p and text[e - 1] == text[p] else e), max(e, p + 1)
         if strings:

@@ -13,7 +13,7 @@ from __future__ import annotations
 import regex
 
 from calami.text.formats.comments import CommentCollector
-from calami.text.formats.textscan import ExtractOptions
+from calami.text.formats.textscan import ExtractOptions, LineEnds
 from calami.text.spans import Span
 
 _TOKEN = regex.compile(r"(?P<comment>#)|(?<![\w])(?P<prefix>[rRbBuUfF]{0,2})(?P<quote>'''|\"\"\"|'|\")")
@@ -30,6 +30,7 @@ def extract(text: str, options: ExtractOptions | None = None) -> list[Span]:
     """Prose in the comments and docstrings of a Python file."""
     strings = bool(options and options.strings)
     sink = CommentCollector(text)
+    line_end = LineEnds(text).at
     n = len(text)
     pos = 0
     seen_code = False  # anything but comments before: no module docstring any more
@@ -39,7 +40,7 @@ def extract(text: str, options: ExtractOptions | None = None) -> list[Span]:
             break
         p = m.start()
         if m.lastgroup == "comment":
-            e = _line_end(text, p)
+            e = line_end(p)
             if not (p == 0 and text.startswith("#!", 0)):
                 sink.line_comment(p, p + 1, e)
             if not seen_code and text[pos:p].strip():
@@ -47,7 +48,7 @@ def extract(text: str, options: ExtractOptions | None = None) -> list[Span]:
             pos = e
             continue
         quote = m.group("quote")
-        body = _BODY[quote].match(text, m.end(), n if len(quote) == 3 else _line_end(text, m.end()))
+        body = _BODY[quote].match(text, m.end(), n if len(quote) == 3 else line_end(m.end()))
         e = body.end()
         close = len(quote) if text.endswith(quote, m.end(), e) and e - m.end() >= len(quote) else 0
         content_start, content_end = m.end(), e - close
@@ -60,11 +61,6 @@ def extract(text: str, options: ExtractOptions | None = None) -> list[Span]:
     return sink.spans()
 
 
-def _line_end(text: str, p: int) -> int:
-    n = text.find("\n", p)
-    limit = n if n >= 0 else len(text)
-    r = text.find("\r", p, limit)
-    return r if r >= 0 else limit
 
 
 def _is_docstring(text: str, start: int, end: int, seen_code: bool) -> bool:

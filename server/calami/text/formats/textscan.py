@@ -223,3 +223,29 @@ def cut(text: str, spans: "list[tuple[int, int, str, bool]]", holes: list[tuple[
             pos = next_pos
         carry = carry or breaks
     return out
+
+
+class LineEnds:
+    """End of the line holding an offset (before its break), remembered.
+
+    Scanners ask for the line end at many offsets of the same line; a fresh
+    search each time would make one very long line cost O(n^2).
+    """
+
+    __slots__ = ("_text", "_start", "_end")
+
+    def __init__(self, text: str) -> None:
+        self._text = text
+        self._start = 0
+        self._end = -1
+
+    def at(self, pos: int) -> int:
+        if self._start <= pos <= self._end:
+            return self._end
+        text = self._text
+        n = text.find("\n", pos)
+        limit = n if n >= 0 else len(text)
+        r = text.find("\r", pos, limit)
+        end = r if r >= 0 else limit
+        self._start, self._end = pos, end
+        return end
