@@ -72,8 +72,21 @@ class _Parser:
 
     def run(self) -> list[Span]:
         text = self.text
+        line = self._line
         for start, end, _ in iter_lines(text, _front_matter_end(text)):
-            self._line(start, end)
+            # Inlined fast path: a top-level line starting with a letter continues
+            # or opens a paragraph (letters start no other block).
+            if not self.containers and start < end and text[start].isalpha():
+                leaf = self.leaf
+                if leaf is not None and leaf.kind == PARA:
+                    leaf.lines.append((start, end))
+                    continue
+                if leaf is None:
+                    self.after_refdef = 0
+                    leaf = self.leaf = _Leaf(PARA, 0)
+                    leaf.lines.append((start, end))
+                    continue
+            line(start, end)
         self._close_leaf()
         self.spans.sort(key=lambda s: s.start)
         return self.spans
@@ -333,15 +346,13 @@ class _Parser:
             self.spans.extend(html_format.extract_range(self.text, leaf.lines[0][0], leaf.lines[-1][1]))
 
     def _emit(self, rows: list[tuple[int, int]], kind: str) -> None:
-        text = self.text
-        spans = []
-        for s, e in rows:
-            s2, e2 = _strip(text, s, e)
-            if e2 > s2:
-                spans.append((s2, e2, kind, not spans))
-        if spans:
-            holes = inline_holes(text, spans[0][0], spans[-1][1])
-            self.spans.extend(cut(text, spans, holes))
+        """Spans of one block: one per line, the first starts a new sentence context."""
+        if not rows:
+            return
+        spans = [(s, e, kind, False) for s, e in rows]
+        spans[0] = (rows[0][0], rows[0][1], kind, True)
+        holes = inline_holes(self.text, rows[0][0], rows[-1][1])
+        self.spans.extend(cut(self.text, spans, holes))
 
     def _table_row(self, start: int, end: int) -> None:
         text = self.text

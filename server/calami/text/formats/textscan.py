@@ -211,7 +211,10 @@ def cut(text: str, spans: "list[tuple[int, int, str, bool]]", holes: list[tuple[
                 piece_end = end
                 next_pos = -1
             if piece_end > pos:
-                s, e = trim(text, pos, piece_end)
+                if text[pos].isspace() or text[piece_end - 1].isspace() or "\ufeff" in (text[pos], text[piece_end - 1]):
+                    s, e = trim(text, pos, piece_end)
+                else:
+                    s, e = pos, piece_end
                 if e > s:
                     out.append(Span(s, e, kind, breaks or carry))
                     carry = False
