@@ -15,13 +15,17 @@ import regex
 
 from calami.text.formats import html as html_format
 from calami.text.formats.markdown_inline import inline_holes
+from calami.text.formats.markdown_lines import (
+    advance,
+    atx_content_end,
+    front_matter_end,
+    indent,
+    rest_blank,
+    strip_blanks,
+)
 from calami.text.formats.textscan import ExtractOptions, cut, iter_lines
 from calami.text.spans import Span
 
-_FRONT_YAML = regex.compile(r"---[ \t]*(?:\r\n|\n|\r)")
-_FRONT_YAML_END = regex.compile(r"(?m)^(?:---|\.\.\.)[ \t]*(?:\r\n|\n|\r|\Z)")
-_FRONT_TOML = regex.compile(r"\+\+\+[ \t]*(?:\r\n|\n|\r)")
-_FRONT_TOML_END = regex.compile(r"(?m)^\+\+\+[ \t]*(?:\r\n|\n|\r|\Z)")
 _ATX = regex.compile(r"#{1,6}(?=[ \t]|$)")
 _FENCE = regex.compile(r"`{3,}(?=[^`]*$)|~{3,}")
 _THEMATIC = regex.compile(r"(?:(?:\*[ \t]*){3,}|(?:-[ \t]*){3,}|(?:_[ \t]*){3,})$")
@@ -73,7 +77,7 @@ class _Parser:
     def run(self) -> list[Span]:
         text = self.text
         line = self._line
-        for start, end, _ in iter_lines(text, _front_matter_end(text)):
+        for start, end, _ in iter_lines(text, front_matter_end(text)):
             # Inlined fast path: a top-level line starting with a letter continues
             # or opens a paragraph (letters start no other block).
             if not self.containers and start < end and text[start].isalpha():
@@ -121,7 +125,7 @@ class _Parser:
             self._in_leaf(start, end, pos)
             return
         if leaf is not None and leaf.kind == ICODE:
-            ind, p = _indent(text, pos, end, col)
+            ind, p = indent(text, pos, end, col)
             if p >= end or ind - col >= 4:
                 return
             self._close_leaf()
@@ -133,7 +137,7 @@ class _Parser:
         col = 0
         matched = 0
         for kind, content_col in self.containers:
-            ind, p = _indent(text, pos, end, col)
+            ind, p = indent(text, pos, end, col)
             if kind == "quote":
                 if ind - col <= 3 and p < end and text[p] == ">":
                     pos, col = p + 1, ind + 1
@@ -146,7 +150,7 @@ class _Parser:
                 if p >= end:
                     pos = end
                 elif ind >= content_col:
-                    pos, col = _advance(text, pos, end, col, content_col)
+                    pos, col = advance(text, pos, end, col, content_col)
                 else:
                     break
             matched += 1
@@ -154,7 +158,7 @@ class _Parser:
 
     def _is_lazy(self, pos: int, end: int) -> bool:
         text = self.text
-        ind, p = _indent(text, pos, end, 0)
+        ind, p = indent(text, pos, end, 0)
         if p >= end:
             return False
         if ind >= 4:
@@ -173,7 +177,7 @@ class _Parser:
     def _open_containers(self, pos: int, end: int, col: int) -> tuple[int, int]:
         text = self.text
         while True:
-            ind, p = _indent(text, pos, end, col)
+            ind, p = indent(text, pos, end, col)
             if p >= end or ind - col >= 4:
                 return pos, col
             c = text[p]
@@ -188,7 +192,7 @@ class _Parser:
             bm = _BULLET.match(text, p, end) if c in "-+*0123456789" else None
             if bm is None or _THEMATIC.match(text, p, end):
                 return pos, col
-            empty = _rest_blank(text, bm.end(), end)
+            empty = rest_blank(text, bm.end(), end)
             leaf = self.leaf
             if leaf is not None and leaf.kind in (PARA, TABLE):
                 if empty or bm.group("num") not in (None, "1"):
@@ -197,7 +201,7 @@ class _Parser:
                     return pos, col
             self._close_leaf()
             marker_col = ind + (bm.end() - p)
-            sp, q = _indent(text, bm.end(), end, marker_col)
+            sp, q = indent(text, bm.end(), end, marker_col)
             if empty:
                 content_col, pos = marker_col + 1, end
             elif sp - marker_col > 4:
@@ -209,7 +213,7 @@ class _Parser:
 
     def _leaf_start(self, start: int, end: int, pos: int, col: int) -> None:
         text = self.text
-        ind, p = _indent(text, pos, end, col)
+        ind, p = indent(text, pos, end, col)
         leaf = self.leaf
         if p >= end:
             self._close_leaf()
@@ -223,7 +227,7 @@ class _Parser:
         c = text[p]
         if c == "#" and (m := _ATX.match(text, p, end)):
             self._close_leaf()
-            self._emit([(m.end(), _atx_content_end(text, m.end(), end))], "heading")
+            self._emit([(m.end(), atx_content_end(text, m.end(), end))], "heading")
             return
         if c in "`~" and (m := _FENCE.match(text, p, end)):
             self._close_leaf()
@@ -288,13 +292,13 @@ class _Parser:
         leaf = self.leaf
         assert leaf is not None
         if leaf.kind == FENCE:
-            ind, p = _indent(text, pos, end, 0)
+            ind, p = indent(text, pos, end, 0)
             fence = leaf.fence
             if ind < 4 and text.startswith(fence, p):
                 q = p
                 while q < end and text[q] == fence[0]:
                     q += 1
-                if _rest_blank(text, q, end):
+                if rest_blank(text, q, end):
                     self.leaf = None
             return
         if leaf.kind == MATH:
@@ -303,7 +307,7 @@ class _Parser:
             return
         # HTML block
         if leaf.html_type >= 6:
-            if _rest_blank(text, pos, end):
+            if rest_blank(text, pos, end):
                 self._close_leaf()
                 return
             leaf.lines.append((pos, end))
@@ -356,7 +360,7 @@ class _Parser:
 
     def _table_row(self, start: int, end: int) -> None:
         text = self.text
-        s, e = _strip(text, start, end)
+        s, e = strip_blanks(text, start, end)
         if s < e and text[s] == "|":
             s += 1
         if e > s and text[e - 1] == "|" and text[e - 2] != "\\":
@@ -368,64 +372,3 @@ class _Parser:
                 self._emit([(cell, i)], "table")
                 cell = i + 1
             i += 1
-
-
-def _front_matter_end(text: str) -> int:
-    start = 1 if text.startswith("\ufeff") else 0
-    for opener, closer in ((_FRONT_YAML, _FRONT_YAML_END), (_FRONT_TOML, _FRONT_TOML_END)):
-        m = opener.match(text, start)
-        if m:
-            c = closer.search(text, m.end())
-            if c:
-                return c.end()
-    return start
-
-
-def _atx_content_end(text: str, start: int, end: int) -> int:
-    """End of an ATX heading's text, before an optional closing run of '#'."""
-    e = end
-    while e > start and text[e - 1] in " \t":
-        e -= 1
-    h = e
-    while h > start and text[h - 1] == "#":
-        h -= 1
-    if h < e and (h == start or text[h - 1] in " \t"):
-        return h
-    return e
-
-
-def _indent(text: str, pos: int, end: int, col: int) -> tuple[int, int]:
-    """Column reached and offset of the first non-blank at or after ``pos``."""
-    while pos < end:
-        c = text[pos]
-        if c == " ":
-            col += 1
-        elif c == "\t":
-            col += 4 - col % 4
-        else:
-            break
-        pos += 1
-    return col, pos
-
-
-def _advance(text: str, pos: int, end: int, col: int, target: int) -> tuple[int, int]:
-    while pos < end and col < target and text[pos] in " \t":
-        col = col + 1 if text[pos] == " " else col + 4 - col % 4
-        pos += 1
-    return pos, col
-
-
-def _rest_blank(text: str, pos: int, end: int) -> bool:
-    while pos < end:
-        if text[pos] not in " \t":
-            return False
-        pos += 1
-    return True
-
-
-def _strip(text: str, s: int, e: int) -> tuple[int, int]:
-    while s < e and text[s] in " \t":
-        s += 1
-    while e > s and text[e - 1] in " \t":
-        e -= 1
-    return s, e
