@@ -203,6 +203,16 @@ def test_yaml():
     ]
 
 
+def test_yaml_strings_option():
+    src = (
+        "title: A short description of the build\nname: \"quoted value here\"\nid: single\n"
+        "notes: |\n  Block scalar prose\n  second line\nafter: x # comment\n"
+    )
+    assert texts(src, "yaml", strings=True) == [
+        "A short description of the build", "quoted value here", "Block scalar prose", "second line", "comment",
+    ]
+
+
 def test_toml():
     src = (
         '# TOML comment\na = "x # not" # after\nb = \'lit # not\' # after lit\nc = """\nmulti # not\n""" # after multi\n'

@@ -181,7 +181,11 @@ class CommentCollector:
 
 _UNDERLINE = regex.compile(r"([=\-~^\"'`#*+])\1{2,}\s*$")
 _NUMPY_PARAM = regex.compile(r"\*{0,2}[\w.]+(?:\s*,\s*\*{0,2}[\w.]+)*\s+:\s*(?:\S[^\n]{0,200})?$")
-_ESCAPE = regex.compile(r"\\(?:x[0-9a-fA-F]{2}|u\{[0-9a-fA-F]{1,6}\}|u[0-9a-fA-F]{4}|U[0-9a-fA-F]{8}|[0-7]{1,3}|.)|\$\{[^}\n]{0,500}\}|%[-+ #0]*\d*(?:\.\d+)?[sdifxXrcoeEgGu%]|\{[\w.:!\[\]]{0,100}\}")
+_ESCAPE = regex.compile(
+    r"\\(?:x[0-9a-fA-F]{2}|u\{[0-9a-fA-F]{1,6}\}|u[0-9a-fA-F]{4}|U[0-9a-fA-F]{8}|[0-7]{1,3}|.)"  # escapes
+    r"|\$\{[^}\n]{0,500}\}"  # template substitutions
+    r"|%[-+ #0]*\d*(?:\.\d+)?[sdifxXrcoeEgGu%]|\{[\w.:!\[\]]{0,100}\}"  # format placeholders
+)
 
 
 def _own_line(text: str, pos: int) -> bool:
