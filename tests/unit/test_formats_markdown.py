@@ -131,6 +131,13 @@ def test_links_images_references_and_urls():
     assert texts(doc) == ["See [the docs]", "and ![alt text]", "and [ref]", "and", "and", "."]
 
 
+def test_label_lines_that_are_not_reference_definitions():
+    # CommonMark: a definition is the label, one destination and an optional title; nothing else.
+    assert texts("[Note]: some prose here\n") == ["[Note]: some prose here"]
+    assert texts("[^1]: A footnote text.\n") == ["[^1]: A footnote text."]
+    assert texts("[a]: <x y> 't'\n") == []
+
+
 def test_escaped_characters():
     doc = "Use snake\\_case and \\*literal stars\\* and \\# hash.\n"
     # The escaped underscore keeps the identifier whole (and out); the backslash
@@ -249,6 +256,7 @@ ORACLE_DOCS = [
     "| head one | head two |\n| --- | --- |\n| cell `code` | plain cell |\n\nafter table\n",
     "1. first\n2. second\n\n   ~~~\n   code\n   ~~~\n3. third item\n",
     "Line one\nline two  \nhard break\\\nafter\n\n***\n\nEnd paragraph.\n",
+    "[Note]: this looks like a definition but is prose\n\n[^1]: A footnote in prose.\n\n[x]: <a b> 'title'\n",
 ]
 
 

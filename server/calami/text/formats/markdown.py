@@ -31,7 +31,12 @@ _FENCE = regex.compile(r"`{3,}(?=[^`]*$)|~{3,}")
 _THEMATIC = regex.compile(r"(?:(?:\*[ \t]*){3,}|(?:-[ \t]*){3,}|(?:_[ \t]*){3,})$")
 _SETEXT = regex.compile(r"(?:=+|-+)[ \t]*$")
 _BULLET = regex.compile(r"(?:[-+*]|(?P<num>[0-9]{1,9})[.)])(?=[ \t]|$)")
-_REFDEF = regex.compile(r"\[(?:[^\]\\\r\n]|\\.){1,999}\]:[ \t]*(?P<dest>\S)?")
+# [label]: destination "optional title" -- the whole line, or the label alone
+# with the destination on the next line.  A footnote label ([^1]) is prose.
+_REFDEF = regex.compile(
+    r"\[(?!\^)(?:[^\]\\\r\n]|\\.){1,999}\]:[ \t]*"
+    r"(?:(?P<dest><[^<>\r\n]*>|\S+)(?:[ \t]+(?:\"[^\"\r\n]*\"|'[^'\r\n]*'|\([^()\r\n]*\)))?)?[ \t]*$"
+)
 _TITLE_LINE = regex.compile(r"[ \t]*(?:\"[^\"]*\"|'[^']*'|\([^()]*\))[ \t]*$")
 _DELIM_ROW = regex.compile(r"\|?[ \t]*:?-+:?[ \t]*(?:\|[ \t]*:?-+:?[ \t]*)*\|?[ \t]*$")
 _HTML_RAW = regex.compile(r"<(?:script|pre|style|textarea)(?:[ \t>]|$)", regex.I)
