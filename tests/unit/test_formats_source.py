@@ -167,6 +167,18 @@ def test_python_numpy_style_and_attribute_docstrings():
     ]
 
 
+def test_python_google_style_sections():
+    src = (
+        'def f(x, y):\n    """Add two numbers.\n\n    Args:\n        x (int): The first value.\n'
+        '        max_len: The second value,\n            continued here.\n\n    Returns:\n'
+        '        int: The sum.\n\n    Note: this line is prose.\n    """\n'
+    )
+    assert texts(src, "python") == [
+        "Add two numbers.", "Args:", "The first value.", "The second value,", "continued here.", "Returns:",
+        "The sum.", "Note: this line is prose.",
+    ]
+
+
 def test_python_strings_in_brackets_are_not_docstrings():
     src = 'x = (\n    "implicit concatenation part"\n    "second part"\n)\nfoo(\n    "argument text"\n)\n'
     assert texts(src, "python") == []

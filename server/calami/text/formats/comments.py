@@ -58,6 +58,7 @@ class CommentCollector:
         self._in_fence = False
         self._code_indent = code_indent  # Go: indented doc lines are code
         self._base_indent = -1
+        self.extra_holes: list[tuple[int, int]] = []
 
     def line_comment(self, marker_start: int, body_start: int, body_end: int, doc: bool = False) -> None:
         """A ``//`` or ``#`` comment; full-line comments on consecutive lines form one block."""
@@ -102,6 +103,7 @@ class CommentCollector:
             else:
                 holes.extend(markdown_holes(text, start, end))
             holes.extend(m.span() for m in _DOC_TAG.finditer(text, start, end))
+        holes.extend(self.extra_holes)
         return cut(text, self.out.rows, holes)
 
     # -- internals ---------------------------------------------------------
@@ -147,7 +149,7 @@ class CommentCollector:
         self._new_block()
         text = self.text
         literal_indent = -1  # inside a '::' literal block: lines indented more than this
-        after_colons = False
+        section_indent = -1  # inside a Google-style "Args:" section: lines indented more than this
         in_doctest = False
         for s, e, _ in iter_lines(text, start, end):
             ts, te = trim(text, s, e)
@@ -164,8 +166,12 @@ class CommentCollector:
                 if ind > literal_indent:
                     continue
                 literal_indent = -1
-            if after_colons:
-                after_colons = False
+            if section_indent >= 0 and ind <= section_indent:
+                section_indent = -1
+            if _SECTION.match(text, ts, te):
+                section_indent = ind
+            elif section_indent >= 0 and (pm := _PARAM_HEAD.match(text, ts, te)):
+                self.extra_holes.append((ts, pm.end()))  # "name (type):" is code, its description prose
             if in_doctest or text.startswith(">>>", ts):
                 in_doctest = True
                 self.out.brk()
@@ -179,6 +185,12 @@ class CommentCollector:
         self._new_block()
 
 
+# Google-style docstring sections whose entries start with a name (common practice).
+_SECTION = regex.compile(
+    r"(?:Args|Arguments|Parameters|Params|Keyword Args|Keyword Arguments|Other Parameters|Attributes|"
+    r"Raises|Returns|Yields|Warns|Exceptions):[ \t]*$"
+)
+_PARAM_HEAD = regex.compile(r"\*{0,2}[A-Za-z_][\w.]*(?:[ \t]*\([^)\r\n]{0,100}\))?:(?=\s|$)")
 _UNDERLINE = regex.compile(r"([=\-~^\"'`#*+])\1{2,}\s*$")
 _NUMPY_PARAM = regex.compile(r"\*{0,2}[\w.]+(?:\s*,\s*\*{0,2}[\w.]+)*\s+:\s*(?:\S[^\n]{0,200})?$")
 _ESCAPE = regex.compile(
