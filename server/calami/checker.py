@@ -7,8 +7,8 @@ Every checkable word is a hypothesis test (noisy channel, Kernighan, Church
     Hc:  the writer meant candidate c   (1 - alpha) * Q(w | c) * P(c | left) * P(right | c)
 
 For a word outside the lexicon, H0 uses the language model's unknown-word
-probability and a constant prior that such a spelling is meant
-(``oov_log_prior``).  The posterior that the word is wrong is
+probability times the probability of the spelling as a new word (a character
+trigram model, ``model/novel.py``, shifted by the tuned ``oov_log_prior``).  The posterior that the word is wrong is
 sum(Hc) / (H0 + sum(Hc)); a hint needs it above the hint threshold, and a
 fix is "confident" when its own posterior passes the confident threshold.
 
@@ -32,6 +32,8 @@ from calami.text.tokens import BOS, CAPS, EOS, SKIP, UNK, Token, lm_units, sente
 
 MIN_NONWORD_LENGTH = 3  # shorter unknown tokens are abbreviations far more often than typos
 CONFUSABLE_Q = 0.02  # floor for Q(w | c) between members of a confusion set
+COMPOUND_LOG_RATE = math.log(0.05)  # a new word made of two listed words (our estimate, not fitted)
+PREFIX_LOG_RATE = math.log(0.001)  # a new word made of one letter and a listed word (ditto)
 
 
 class Adaptation(Protocol):
@@ -92,8 +94,12 @@ class Checker:
         self.log_error = math.log(1.0 - p.alpha)
         ids = model.lexicon.ids
         self._confusable = {(ids[a], ids[b]) for a, b in confusion_pairs() if a in ids and b in ids}
+        self._confusable_words = {a for a, _ in self._confusable}
+        self.log_alpha_conf = math.log(p.alpha_confusable)
+        self.log_error_conf = math.log(1.0 - p.alpha_confusable)
         self._q_cache: dict[tuple[int, int], float] = {}
         self._channel_cache: _LRU = _LRU(20000)
+        self._novel_cache: _LRU = _LRU(20000)
 
     # ------------------------------------------------------------ front doors
 
@@ -179,13 +185,18 @@ class Checker:
         if not nbrs or (left == model.bos and right == model.eos):
             return None
         lexicon = model.lexicon
-        h0 = self._h0_known(kid, left, right) + math.log1p(4.0 * self._ignored(word))
+        # Members of known confusion sets are mixed up far more often than other words.
+        if kid in self._confusable_words:
+            log_alpha, log_error = self.log_alpha_conf, self.log_error_conf
+        else:
+            log_alpha, log_error = self.log_alpha, self.log_error
+        h0 = (log_alpha + self._lp(kid, left) + self._lp(right, kid)) + math.log1p(4.0 * self._ignored(word))
         boosts = self._correction_boosts(word)
         hyps = []
         for c in nbrs:
             if not lexicon.flags[c] & LOWER or not lexicon.is_variant(c, self.variant):
                 continue
-            h = self.log_error + self._q(kid, c) + self._lp(c, left) + self._lp(right, c)
+            h = log_error + self._q(kid, c) + self._lp(c, left) + self._lp(right, c)
             h += boosts.get(lexicon.keys[c], 0.0)
             hyps.append((c, h))
         if not hyps:
@@ -207,10 +218,39 @@ class Checker:
 
     def _h0_unknown(self, w: str, left: int, right: int, typed: str, capitalised_inside: bool) -> float:
         model = self.model
-        h0 = self.log_alpha + model.params.oov_log_prior + self._lp(model.unk, left) + self._lp(right, model.unk)
+        spelling = self._novel_cache.get(w)
+        if spelling is None:
+            spelling = self._novel_cache.put(w, self._novel_logprob(w))
+        h0 = (self.log_alpha + model.params.oov_log_prior + spelling
+              + self._lp(model.unk, left) + self._lp(right, model.unk))
         if capitalised_inside:
             h0 += 4.0  # probably a name: leave it alone unless clearly a typo
         return h0
+
+    def _novel_logprob(self, w: str) -> float:
+        """log P(spelling | new word): character model, or a closed compound.
+
+        Technical writing coins words by joining listed ones ("menubar",
+        "timeframe") or by a one-letter prefix ("xarray"); such a spelling is
+        far likelier as a new word than its letters alone suggest.
+        """
+        model = self.model
+        best = model.novel.logprob(w)
+        lexicon, lm = model.lexicon, model.lm
+        for i in range(1, len(w)):
+            a, b = w[:i], w[i:]
+            kb = lexicon.ids.get(b)
+            if kb is None or not lexicon.flags[kb] & LOWER or len(b) < 3:
+                continue
+            ka = lexicon.ids.get(a)
+            if ka is not None and lexicon.flags[ka] & LOWER and len(a) >= 3:
+                score = math.log(lm.unigram(ka)) + math.log(lm.unigram(kb)) + COMPOUND_LOG_RATE
+            elif len(a) == 1:
+                score = math.log(lm.unigram(kb)) + PREFIX_LOG_RATE
+            else:
+                continue
+            best = max(best, score)
+        return best
 
     def _candidate_hypotheses(self, w: str, left: int, right: int, typed: str, every_candidate: bool):
         boosts = self._correction_boosts(typed)

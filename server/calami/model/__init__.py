@@ -18,6 +18,7 @@ from calami.model.candidates import CandidateIndex
 from calami.model.channel import ChannelModel
 from calami.model.language import LanguageModel
 from calami.model.lexicon import Lexicon
+from calami.model.novel import NovelWordModel
 from calami.text.tokens import BOS, EOS, UNK
 
 MODEL_FILENAME = "calami-en.msgpack"
@@ -28,10 +29,11 @@ class Params:
     """Decision constants tuned on held-out data (see models/README.md)."""
 
     alpha: float = 0.995  # P(no error) for a word that is in the lexicon
+    alpha_confusable: float = 0.95  # P(no error) for members of known confusion sets
     realword_hint: float = 0.5  # posterior needed to flag a real word
     nonword_hint: float = 0.5
     confident: float = 0.95
-    oov_log_prior: float = -16.0  # log P(an unknown word is meant as typed)
+    oov_log_prior: float = 0.0  # added to the novel-word model's log P(spelling)
     max_nonword_candidates: int = 60
     channel_weight: float = 1.0  # exponent on the error model against the language model
 
@@ -53,6 +55,7 @@ class Model:
     neighbours_start: array  # 'I', per key id: real-word neighbours within one edit
     neighbours: array  # 'I'
     sound_index: dict[str, tuple[int, ...]]
+    novel: NovelWordModel
     params: Params = field(default_factory=Params)
     header: dict[str, Any] = field(default_factory=dict)
 
@@ -109,6 +112,7 @@ class Model:
             },
             "realword": {"start": store.pack_array(self.neighbours_start), "ids": store.pack_array(self.neighbours)},
             "sound": {"keys": store.pack_strings(sound_keys), "start": store.pack_array(sound_start), "ids": store.pack_array(sound_ids)},
+            "novel": self.novel.to_dict(),
             "params": self.params.to_dict(),
         }
 
@@ -135,7 +139,7 @@ class Model:
         return cls(
             lexicon=lexicon, lm=lm, channel=ChannelModel.from_dict(payload["channel"]), candidates=cand,
             neighbours_start=store.unpack_array(rw["start"]), neighbours=store.unpack_array(rw["ids"]),
-            sound_index=sound_index, params=Params.from_dict(payload.get("params", {})), header=header or {},
+            sound_index=sound_index, novel=NovelWordModel.from_dict(payload["novel"]), params=Params.from_dict(payload.get("params", {})), header=header or {},
         )
 
     def save(self, path: Path, header: dict[str, Any]) -> int:

@@ -32,6 +32,7 @@ from calami.model.channel import train_channel, text_char_counts
 from calami.model.confusables import confusion_pairs
 from calami.model.language import BigramCounter, build_language_model
 from calami.model.lexicon import CORPUS, GB, LOWER, US, Lexicon
+from calami.model.novel import NovelWordModel
 from calami.model.phonetic import sound_key
 from calami.text.tokens import SKIP, lm_units, sentences, tokenize
 
@@ -260,7 +261,8 @@ def build(cfg: BuildConfig) -> tuple[Model, dict]:
     model = Model(
         lexicon=lexicon, lm=lm, channel=channel, candidates=candidates,
         neighbours_start=neighbours_start, neighbours=neighbours,
-        sound_index={s: tuple(ids) for s, ids in sound_index.items()}, params=cfg.params,
+        sound_index={s: tuple(ids) for s, ids in sound_index.items()},
+        novel=NovelWordModel.train(zip(keys, prior)), params=cfg.params,
     )
     header = {
         "built": datetime.now(timezone.utc).strftime("%Y-%m-%dT%H:%M:%SZ"),
@@ -297,12 +299,32 @@ def realword_neighbours(
         near: set[int] = set(extra.get(k, ()))
         if k in frequent_set and len(keys[k]) >= 2:
             for c, d in index.within(keys[k], 1).items():
-                if c != k and c in frequent_set and d == 1:
+                if c != k and c in frequent_set and d == 1 and not inflections(keys[k], keys[c]):
                     near.add(c)
         ranked = sorted(near, key=lambda c: -prior[c])[: cfg.realword_max_neighbours]
         ids.extend(sorted(ranked))
         start.append(len(ids))
     return start, ids
+
+
+_ENDINGS = ("s", "es", "d", "ed", "r", "er", "ly", "ing", "'s", "n", "en", "st", "est", "y")
+
+
+def inflections(a: str, b: str) -> bool:
+    """True if one word is the other plus a common ending ("user"/"users").
+
+    Choosing between such forms is grammar, not spelling: a bigram model
+    flags them too eagerly, so they are not real-word neighbours.
+    """
+    if len(a) == len(b) > 2 and a[:-1] == b[:-1] and a[-1] in "sdry" and b[-1] in "sdry":
+        return True  # specifies/specified, users/usery
+    short, long_ = (a, b) if len(a) <= len(b) else (b, a)
+    if long_.startswith(short) and long_[len(short):] in _ENDINGS:
+        return True
+    # describe/described, replace/replaces: a final "e" absorbed by the ending
+    if short.endswith("e") and long_.startswith(short[:-1]) and long_[len(short) - 1:] in ("ed", "es", "er", "ing", "en", "y"):
+        return True
+    return False
 
 
 def wordfreq_frequency() -> Callable[[str], float]:
