@@ -129,7 +129,7 @@ def tune_oov(model, sentences, pairs) -> float:
     clean = sentences[len(sentences) // 2 :]
     clean_words = sum(len(s.split()) for s in clean)
     best = None
-    for oov in (-4.0, -2.0, -1.0, 0.0, 1.0, 2.0, 3.0, 4.0):
+    for oov in (-8.0, -7.0, -6.0, -5.0, -4.0, -3.0, -2.0, -1.0, 0.0, 1.0, 2.0):
         model.params.oov_log_prior = oov
         checker = Checker(model)
         found = sum(any(f.kind == NONWORD and f.start == s and f.end == e for f in checker.check(t)) for t, s, e in planted)
@@ -148,19 +148,23 @@ def main() -> None:
     ap.add_argument("--dev", type=Path, default=REPO / "build" / "corpus" / "dev-heldout.txt")
     ap.add_argument("--sentences", type=int, default=3000)
     ap.add_argument("--write", action="store_true")
+    ap.add_argument("--only", choices=["channel", "realword", "oov"], help="tune one group, keep the others as stored")
     args = ap.parse_args()
     model = load(args.model)
     pairs = train_pairs()
-    print("error-model weight (2-fold cross-validation on train pairs):")
-    model.params.channel_weight = tune_channel_weight(model, pairs)
-    print(f"-> channel_weight = {model.params.channel_weight}")
+    if args.only in (None, "channel"):
+        print("error-model weight (2-fold cross-validation on train pairs):")
+        model.params.channel_weight = tune_channel_weight(model, pairs)
+        print(f"-> channel_weight = {model.params.channel_weight}")
     sentences = dev_sentences(args.dev, args.sentences)
-    print("real-word constants (dev-heldout sentences):")
-    model.params.alpha_confusable, model.params.alpha = tune_realword(model, sentences)
-    print(f"-> alpha_confusable = {model.params.alpha_confusable}, alpha = {model.params.alpha}")
-    print("unknown-word prior (dev-heldout sentences with planted train-split misspellings):")
-    model.params.oov_log_prior = tune_oov(model, sentences, pairs)
-    print(f"-> oov_log_prior = {model.params.oov_log_prior}")
+    if args.only in (None, "realword"):
+        print("real-word constants (dev-heldout sentences):")
+        model.params.alpha_confusable, model.params.alpha = tune_realword(model, sentences)
+        print(f"-> alpha_confusable = {model.params.alpha_confusable}, alpha = {model.params.alpha}")
+    if args.only in (None, "oov"):
+        print("unknown-word prior (dev-heldout sentences with planted train-split misspellings):")
+        model.params.oov_log_prior = tune_oov(model, sentences, pairs)
+        print(f"-> oov_log_prior = {model.params.oov_log_prior}")
     if args.write:
         header, _ = read_model(args.model)
         header = {k: v for k, v in header.items() if k not in ("sha256", "payload_bytes")}

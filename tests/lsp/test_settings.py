@@ -50,3 +50,22 @@ def test_the_project_file_wins_for_the_keys_it_sets():
     merged = with_project(editor, config)
     assert merged.variant == "en-GB"  # set in calami.toml
     assert merged.max_suggestions == 3 and merged.hint_threshold == 0.6  # left to the editor
+
+
+def test_editor_owned_keys_are_ignored_quietly():
+    # VS Code sends how it starts the server and its tracing level under "calami".
+    settings, problems = parse({"serverPath": "calami", "serverArgs": ["serve"], "trace": {"server": "off"}, "variant": "en-GB"})
+    assert problems == []
+    assert settings.variant == "en-GB"
+
+
+def test_helix_wrapped_settings_are_unwrapped():
+    settings, problems = parse({"calami": {"maxSuggestions": 3}})
+    assert problems == [] and settings.max_suggestions == 3
+
+
+def test_editor_language_names_map_to_kinds():
+    from calami.lsp.documents import LANGUAGE_KINDS
+
+    for language, kind in {"gitcommit": "commit", "rst": "rst", "tex": "latex", "sh": "shell", "tsx": "typescript"}.items():
+        assert LANGUAGE_KINDS[language] == kind

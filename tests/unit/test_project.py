@@ -139,3 +139,16 @@ def test_ignore_pattern_timeout_is_reported(tmp_path):
     holes, warnings = project.ignore_holes("a" * 60 + "! ok", timeout=0.1)
     assert holes == [(62, 64)]
     assert len(warnings) == 1 and "took longer than 0.1s" in warnings[0]
+
+
+def test_word_lists_are_never_selected_when_walking(tmp_path):
+    from calami.vocab.project import load_project
+
+    (tmp_path / "calami.toml").write_text('word-lists = ["words.txt", "more/jargon.txt"]\n', encoding="utf-8")
+    (tmp_path / "more").mkdir()
+    for name in ("words.txt", "more/jargon.txt", "notes.txt"):
+        (tmp_path / name).write_text("x\n", encoding="utf-8")
+    project = load_project(tmp_path)
+    assert not project.selects(tmp_path / "words.txt")
+    assert not project.selects(tmp_path / "more" / "jargon.txt")
+    assert project.selects(tmp_path / "notes.txt")

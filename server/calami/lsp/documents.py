@@ -45,6 +45,17 @@ LANGUAGE_KINDS = {
     "shellscript": "shell",
     "yaml": "yaml",
     "toml": "toml",
+    # Names some editors use instead of the LSP identifiers.
+    "rst": "rst",
+    "plaintex": "latex",
+    "text": "plain",
+    "gitcommit": "commit",
+    "sh": "shell",
+    "bash": "shell",
+    "zsh": "shell",
+    "jsx": "javascript",
+    "tsx": "typescript",
+    "c++": "cpp",
 }
 
 

@@ -98,6 +98,9 @@ def _check(field: str, value: Any) -> str | None:
     return "is not a calami setting"  # pragma: no cover - KEYS guards this
 
 
+EDITOR_KEYS = frozenset({"serverPath", "serverArgs", "trace"})
+
+
 def parse(raw: Any, base: Settings = Settings()) -> tuple[Settings, list[str]]:
     """Settings from a "calami" section; problems come back as messages."""
     if raw is None:
@@ -112,7 +115,9 @@ def parse(raw: Any, base: Settings = Settings()) -> tuple[Settings, list[str]]:
     for key, value in flat.items():
         field = KEYS.get(key)
         if field is None:
-            problems.append(f"unknown setting calami.{key} ignored")
+            # The editor's own keys (how to start us, protocol tracing) are not ours to judge.
+            if key.split(".")[0] not in EDITOR_KEYS:
+                problems.append(f"unknown setting calami.{key} ignored")
             continue
         if value is None:
             continue

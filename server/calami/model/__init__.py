@@ -28,8 +28,8 @@ MODEL_FILENAME = "calami-en.msgpack"
 class Params:
     """Decision constants tuned on held-out data (see models/README.md)."""
 
-    alpha: float = 0.995  # P(no error) for a word that is in the lexicon
-    alpha_confusable: float = 0.95  # P(no error) for members of known confusion sets
+    alpha: float = 0.999  # P(no error) for a word that is in the lexicon
+    alpha_confusable: float = 0.6  # P(no error) for members of known confusion sets
     realword_hint: float = 0.5  # posterior needed to flag a real word
     nonword_hint: float = 0.5
     confident: float = 0.95

@@ -262,7 +262,7 @@ def build(cfg: BuildConfig) -> tuple[Model, dict]:
         lexicon=lexicon, lm=lm, channel=channel, candidates=candidates,
         neighbours_start=neighbours_start, neighbours=neighbours,
         sound_index={s: tuple(ids) for s, ids in sound_index.items()},
-        novel=NovelWordModel.train(zip(keys, prior)), params=cfg.params,
+        novel=train_novel_model(keys, prior, corpus, key_pos), params=cfg.params,
     )
     header = {
         "built": datetime.now(timezone.utc).strftime("%Y-%m-%dT%H:%M:%SZ"),
@@ -280,6 +280,23 @@ def build(cfg: BuildConfig) -> tuple[Model, dict]:
         },
     }
     return model, header
+
+
+def train_novel_model(keys: Sequence[str], prior: Sequence[float], corpus: CorpusCounts, key_pos: dict[str, int]) -> NovelWordModel:
+    """Character model of what *new* words look like in technical prose.
+
+    Half of its mass comes from the corpus words that are not in the lexicon
+    (mostly jargon and abbreviations: "dtype", "varint", "kubectl"), half
+    from the lexicon weighted by frequency.  A typo of an English word looks
+    English, so the jargon half lets the model tell the two apart.
+    """
+    jargon = [(w, c) for w, c in corpus.units.items()
+              if w not in key_pos and not w.startswith("<") and w.replace("'", "").isalpha() and len(w) >= 2]
+    jargon_total = sum(c for _, c in jargon) or 1
+    words = [(k, p) for k, p in zip(keys, prior[: len(keys)])]
+    lexicon_total = sum(p for _, p in words) or 1.0
+    mixed = [(w, 0.5 * p / lexicon_total) for w, p in words] + [(w, 0.5 * c / jargon_total) for w, c in jargon]
+    return NovelWordModel.train(mixed)
 
 
 def realword_neighbours(

@@ -145,9 +145,15 @@ class Project:
         return holes(text, self.ignore_patterns, timeout)
 
     def selects(self, path: Path) -> bool:
-        """True if a file found by walking a folder passes include/exclude."""
+        """True if a file found by walking a folder passes include/exclude.
+
+        The project's own word lists are data, not prose: never selected.
+        """
+        resolved = path.resolve()
+        if any(resolved == p.resolve() for p in self.word_list_paths):
+            return False
         try:
-            rel = path.resolve().relative_to(self.root.resolve()).as_posix()
+            rel = resolved.relative_to(self.root.resolve()).as_posix()
         except ValueError:
             return True  # outside the project: its globs do not speak about it
         if self._include and not _matches_any(self._include, rel):
