@@ -1,0 +1,84 @@
+"""What the real-editor tests share: the demo's planted mistakes, a private
+copy of the demo, and an environment that keeps editors out of the real home."""
+
+from __future__ import annotations
+
+import os
+import re
+import shutil
+import sys
+from dataclasses import dataclass
+from pathlib import Path
+
+REPO = Path(__file__).resolve().parents[2]
+DEMO = REPO / "demo"
+EDITOR_CONFIGS = REPO / "editor-configs"
+
+
+@dataclass(frozen=True)
+class Planted:
+    """One row of demo/EXPECTED.md, with where the word sits in the file."""
+
+    file: str
+    line: int  # 1-based, as in EXPECTED.md
+    word: str
+    kind: str
+    intended: str
+    char_col: int  # 0-based code-point column of the word
+    byte_col: int  # 0-based UTF-8 byte column (Neovim's diagnostic columns)
+
+
+def planted_mistakes(demo: Path = DEMO) -> list[Planted]:
+    """The rows of EXPECTED.md's table, each located in its file.
+
+    The word must occur exactly once on its line (as a whole word), so that
+    the expected column is not a guess."""
+    rows = []
+    for raw in (demo / "EXPECTED.md").read_text(encoding="utf-8").splitlines():
+        cells = [c.strip() for c in raw.strip().strip("|").split("|")]
+        if len(cells) != 5 or cells[0] in ("file", "") or set(cells[0]) <= {"-", " "}:
+            continue
+        file, line, word, kind, intended = cells
+        text = (demo / file).read_text(encoding="utf-8").splitlines()[int(line) - 1]
+        hits = [m.start() for m in re.finditer(rf"(?<!\w){re.escape(word)}(?!\w)", text)]
+        assert len(hits) == 1, f"{file}:{line}: '{word}' occurs {len(hits)} times on the line"
+        col = hits[0]
+        rows.append(Planted(file, int(line), word, kind, intended, col, len(text[:col].encode("utf-8"))))
+    assert rows, "demo/EXPECTED.md has no table rows"
+    return rows
+
+
+def copy_demo(tmp_path: Path) -> Path:
+    """A private copy of demo/, so nothing an editor does can change the repo."""
+    target = tmp_path / "demo"
+    shutil.copytree(DEMO, target)
+    return target
+
+
+def server_command() -> list[str]:
+    """`calami serve` of the Python running the tests (the venv's calami)."""
+    script = Path(sys.executable).with_name("calami")
+    if script.is_file() and os.access(script, os.X_OK):
+        return [str(script), "serve"]
+    return [sys.executable, "-m", "calami", "serve"]
+
+
+def isolated_env(tmp_path: Path) -> dict[str, str]:
+    """HOME, XDG folders and the calami profile all under tmp_path."""
+    home = tmp_path / "home"
+    env = dict(os.environ)
+    env["HOME"] = str(home)
+    for name in ("XDG_CONFIG_HOME", "XDG_DATA_HOME", "XDG_STATE_HOME", "XDG_CACHE_HOME", "XDG_RUNTIME_DIR"):
+        path = home / name.lower()
+        path.mkdir(mode=0o700, parents=True, exist_ok=True)
+        env[name] = str(path)
+    env["CALAMI_PROFILE_DIR"] = str(tmp_path / "profile")
+    env.pop("CALAMI_MODEL", None)  # the shipped model, as a user gets it
+    return env
+
+
+def replaced(lines: list[str], line: int, col: int, old: str, new: str) -> list[str]:
+    """`lines` with `old` at (line, col) (0-based, code points) replaced by `new`."""
+    text = lines[line]
+    assert text[col:col + len(old)] == old, (text, col, old)
+    return lines[:line] + [text[:col] + new + text[col + len(old):]] + lines[line + 1:]

@@ -1,0 +1,102 @@
+"""Real Neovim (headless) with the shipped config against `calami serve`.
+
+Neovim loads editor-configs/neovim/init-minimal.lua, which starts the venv's
+calami through the documented CALAMI_NVIM_CMD override; nvim_driver.lua
+opens the demo files, waits for the hints, applies the preferred fix with
+:CalamiFix and writes what it saw to JSON.  The expected hints are the rows
+of demo/EXPECTED.md, located in the files by this test.
+"""
+
+from __future__ import annotations
+
+import json
+import shutil
+import subprocess
+from pathlib import Path
+
+import pytest
+
+from editor_support import EDITOR_CONFIGS, copy_demo, isolated_env, planted_mistakes, replaced, server_command
+
+pytestmark = [
+    pytest.mark.editor,
+    pytest.mark.skipif(shutil.which("nvim") is None, reason="nvim is not on PATH (Debian package: neovim)"),
+]
+
+HERE = Path(__file__).parent
+INIT = EDITOR_CONFIGS / "neovim" / "init-minimal.lua"
+DRIVER = HERE / "nvim_driver.lua"
+WAIT_MS = 60_000  # one budget for all of the driver's waiting
+
+# LSP DiagnosticSeverity (LSP 3.17 spec): 3 = Information, 4 = Hint.  The
+# shipped config's documented defaults: nonword "information", realword "hint".
+SEVERITY = {"nonword": 3, "realword": 4}
+
+
+def run_neovim(tmp_path: Path, demo: Path, files: list[str], fix: tuple[int, int]) -> dict:
+    out = tmp_path / "nvim-result.json"
+    env = isolated_env(tmp_path)
+    command = server_command()
+    assert not any(" " in part for part in command), f"CALAMI_NVIM_CMD splits on spaces: {command}"
+    env.update(
+        CALAMI_NVIM_CMD=" ".join(command),
+        CALAMI_TEST_OUT=str(out),
+        CALAMI_TEST_FILES="|".join(files),
+        CALAMI_TEST_FIX=f"{fix[0]}:{fix[1]}",
+        CALAMI_TEST_TIMEOUT_MS=str(WAIT_MS),
+    )
+    proc = subprocess.run(
+        ["nvim", "--headless", "-u", str(INIT), "-c", f"luafile {DRIVER}"],
+        cwd=demo, env=env, stdin=subprocess.DEVNULL, capture_output=True, text=True,
+        timeout=WAIT_MS / 1000 + 30,
+    )
+    assert out.exists(), f"Neovim wrote no result (exit {proc.returncode}):\n{proc.stdout}\n{proc.stderr}"
+    result = json.loads(out.read_text(encoding="utf-8"))
+    assert not result["errors"], "\n".join(result["errors"])
+    return result
+
+
+def test_neovim_shows_the_demo_hints_and_applies_the_preferred_fix(tmp_path):
+    demo = copy_demo(tmp_path)
+    planted = planted_mistakes(demo)
+    files = list(dict.fromkeys(p.file for p in planted))  # EXPECTED.md's order
+    target = next(p for p in planted if p.file == "README.md" and p.kind == "nonword")
+    original = (demo / target.file).read_text(encoding="utf-8")
+
+    result = run_neovim(tmp_path, demo, files, (target.line - 1, target.byte_col))
+    errors = [m["msg"] for m in result["messages"] if m["level"] == 4]  # vim.log.levels.ERROR
+    assert not errors, errors
+    assert not result["server_gone"], f"calami serve stopped: {result['messages']}"
+
+    for file in files:
+        seen = result["files"][file]
+        assert seen["attached"], f"calami did not attach to {file} (filetype {seen['filetype']!r})"
+        assert not seen["timed_out"], f"no calami hints for {file} within {WAIT_MS} ms: {result['messages']}"
+        want = [p for p in planted if p.file == file]
+        got = seen["diagnostics"]
+        # Exactly the planted mistakes of this file, each where the word is.
+        assert [(d["lnum"], d["col"], d["end_lnum"], d["end_col"]) for d in got] == [
+            (p.line - 1, p.byte_col, p.line - 1, p.byte_col + len(p.word.encode("utf-8"))) for p in want
+        ], (file, got)
+        for d, p in zip(got, want):
+            assert d["code"] == f"calami.{p.kind}", (file, d)
+            assert d["severity"] == SEVERITY[p.kind], (file, d)
+            # The message names the typed word and, as its best fix, the intended one.
+            assert f"'{p.word}'" in d["message"] and f"best fix: '{p.intended}'" in d["message"], (file, d)
+
+    fix = result["fix"]
+    assert fix["changed"], "the buffer did not change after :CalamiFix"
+    assert fix["lines_before"] == original.splitlines()
+    expected = replaced(fix["lines_before"], target.line - 1, target.char_col, target.word, target.intended)
+    assert fix["lines_after"] == expected  # the word replaced, nothing else changed
+    assert fix["modified"] and (demo / target.file).read_text(encoding="utf-8") == original  # not saved
+    # The server re-checked the edited text: that hint is gone, the others stay.
+    assert fix["rechecked"]
+    assert [(d["lnum"], d["col"]) for d in fix["diagnostics_after"]] == [
+        (p.line - 1, p.byte_col) for p in planted if p.file == target.file and p is not target
+    ]
+    # :CalamiFix also ran the action's command, which records the accepted fix.
+    from calami.vocab.profile import Profile
+
+    assert fix["recorded"], "the accepted fix never reached the profile"
+    assert dict(Profile(tmp_path / "profile").corrections(target.word)) == {target.intended: 1}
