@@ -18,7 +18,7 @@ from typing import Any, Callable
 from lsprotocol import types
 
 from calami.findings import NONWORD, Finding
-from calami.lsp.documents import MAX_CHECKED_CHARS, Document, prose_spans
+from calami.lsp.documents import MAX_CHECKED_CHARS, Document, document_spans
 from calami.lsp.findings_cache import Cancelled
 from calami.lsp.settings import Settings
 from calami.text.spans import subtract
@@ -103,7 +103,7 @@ def compute(doc: Document, text: str, version: int, checker: Any, settings: Sett
     checked = text
     if len(text) > MAX_CHECKED_CHARS:
         checked = text[:MAX_CHECKED_CHARS]
-    spans = prose_spans(checked, doc.kind, settings.check_strings)
+    spans = document_spans(doc, checked, settings.check_strings)
     if project is not None and getattr(project, "ignore_patterns", None):
         holes, warnings = project.ignore_holes(checked)
         for warning in warnings:

@@ -10,6 +10,7 @@ from __future__ import annotations
 
 from dataclasses import dataclass, field
 from pathlib import Path
+from typing import Any
 from urllib.parse import unquote, urlparse
 
 from lsprotocol import types
@@ -86,6 +87,18 @@ def prose_spans(text: str, kind: str, check_strings: bool = False) -> list[Span]
     return list(extract(text, kind, ExtractOptions(strings=check_strings)))
 
 
+def document_spans(doc: "Document", text: str, check_strings: bool = False) -> list[Span]:
+    """``prose_spans`` of a document snapshot; Markdown re-parses only the edited blocks."""
+    if doc.kind != "markdown":
+        return prose_spans(text, doc.kind, check_strings)
+    from calami.text.formats.markdown_incremental import extract_state, update
+
+    state = doc.extraction
+    state = extract_state(text) if state is None else update(state, text)
+    doc.extraction = state
+    return list(state.spans)
+
+
 @dataclass
 class Document:
     uri: str
@@ -100,6 +113,9 @@ class Document:
     # of findings that end before it are still exact and are reused.
     dirty_from: int = 0
     wire: dict = field(default_factory=dict)
+    # The last Markdown extraction (text, spans, parser checkpoints), reused
+    # by the next one; touched only by the checking thread.
+    extraction: Any = None
     _positions: PositionMap | None = None
 
     @property

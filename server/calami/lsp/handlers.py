@@ -47,6 +47,8 @@ def lifecycle(server: CalamiServer) -> None:
 
     @server.feature(types.INITIALIZED)
     async def initialized(ls: CalamiServer, params: types.InitializedParams) -> None:
+        if ls.warm_up is not None:
+            ls.warm_up()
         caps = ls.client_capabilities
         if caps.workspace and caps.workspace.did_change_watched_files and caps.workspace.did_change_watched_files.dynamic_registration:
             watchers = [types.FileSystemWatcher(glob_pattern=f"**/{name}") for name in WATCHED]

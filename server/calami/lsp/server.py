@@ -57,8 +57,10 @@ class CalamiProtocol(LanguageServerProtocol):
 
 
 class CalamiServer(LanguageServer):
-    def __init__(self, make_checker: CheckerFactory, profile: Profile) -> None:
+    def __init__(self, make_checker: CheckerFactory, profile: Profile, warm_up: Any = None) -> None:
         super().__init__("calami", __version__, protocol_cls=CalamiProtocol, max_workers=2)
+        # Called once the client has our initialize answer (starts loading the model).
+        self.warm_up = warm_up
         self.profile = profile
         self.docs: dict[str, Document] = {}
         self.settings = Settings()
@@ -157,11 +159,16 @@ def _folders(params: types.InitializeParams) -> list[Path]:
     return [p for p in (uri_to_path(u) for u in uris) if p is not None]
 
 
-def build_server(make_checker: CheckerFactory, profile: Profile | None = None) -> CalamiServer:
-    """A ready-to-start server; ``make_checker(adaptations, settings)`` builds checkers."""
+def build_server(make_checker: CheckerFactory, profile: Profile | None = None, warm_up: Any = None) -> CalamiServer:
+    """A ready-to-start server; ``make_checker(adaptations, settings)`` builds checkers.
+
+    ``warm_up()``, if given, runs when the client confirms initialization
+    (``initialized``): slow preparation such as loading the model starts
+    only after the editor has its ``initialize`` answer.
+    """
     from calami.lsp import handlers
 
-    server = CalamiServer(make_checker, profile if profile is not None else Profile())
+    server = CalamiServer(make_checker, profile if profile is not None else Profile(), warm_up)
     handlers.lifecycle(server)
     handlers.documents(server)
     handlers.features(server)

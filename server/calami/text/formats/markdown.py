@@ -11,6 +11,8 @@ the inline syntax listed in :mod:`markdown_inline`.
 
 from __future__ import annotations
 
+from typing import Callable
+
 import regex
 
 from calami.text.formats import html as html_format
@@ -71,18 +73,31 @@ def extract(text: str, options: ExtractOptions | None = None) -> list[Span]:
 
 
 class _Parser:
-    def __init__(self, text: str) -> None:
+    def __init__(self, text: str, checkpoints: list[int] | None = None) -> None:
         self.text = text
         self.spans: list[Span] = []
         # Containers: ("quote", 0) or ("item", content column).
         self.containers: list[tuple[str, int]] = []
         self.leaf: _Leaf | None = None
         self.after_refdef = 0
+        # Line starts where the parser state is pristine (no container, no open
+        # leaf): what follows parses alike whatever came before, which is what
+        # lets an edit re-parse only from the checkpoint before it.
+        self.checkpoints = checkpoints
+        self.stopped: int | None = None
 
-    def run(self) -> list[Span]:
+    def run(self, begin: int | None = None, resync: Callable[[int], bool] | None = None) -> list[Span]:
+        """Parse from ``begin`` (a checkpoint; default: after front matter) to the
+        end, or to the first checkpoint where ``resync`` says the rest is known."""
         text = self.text
         line = self._line
-        for start, end, _ in iter_lines(text, front_matter_end(text)):
+        marks = self.checkpoints
+        for start, end, _ in iter_lines(text, front_matter_end(text) if begin is None else begin):
+            if marks is not None and self.leaf is None and not self.containers and not self.after_refdef:
+                if resync is not None and resync(start):
+                    self.stopped = start
+                    break
+                marks.append(start)
             # Inlined fast path: a top-level line starting with a letter continues
             # or opens a paragraph (letters start no other block).
             if not self.containers and start < end and text[start].isalpha():
