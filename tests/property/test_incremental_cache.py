@@ -15,6 +15,8 @@ from fake_checker import FakeChecker  # noqa: E402
 
 from calami.lsp.documents import Document, prose_spans  # noqa: E402
 from calami.lsp.positions import UTF8, UTF16, PositionMap  # noqa: E402
+from calami.text.formats.scoring_tokens import scoring_tokens  # noqa: E402
+from calami.text.tokens import sentences  # noqa: E402
 
 # Pieces that exercise the fake's rules, sentence ends, block breaks, CRLF,
 # astral characters (two UTF-16 units), CJK and combining marks.
@@ -38,8 +40,11 @@ def edits(draw, length_hint: int = 40):
     return min(a, b), max(a, b), text
 
 
-def full_check(text: str, kind: str) -> list:
-    return FakeChecker().check(text, prose_spans(text, kind))
+def full_check(text: str, kind: str, checker=None) -> list:
+    """A from-scratch check of the whole text, scored as the server scores it."""
+    checker = checker or FakeChecker()
+    tokens = scoring_tokens(text, prose_spans(text, kind))
+    return [f for sentence in sentences(tokens) for f in checker.check_sentence(sentence)]
 
 
 @settings(max_examples=150, deadline=None)
@@ -116,4 +121,4 @@ def test_cached_findings_equal_a_full_check_with_the_real_checker(initial, steps
         rng = types.Range(positions.position(int(a * len(doc.text))), positions.position(int(b * len(doc.text))))
         doc.apply([types.TextDocumentContentChangePartial(range=rng, text=new)], n)
         cached = doc.cache.findings(doc.text, prose_spans(doc.text, kind), checker)
-        assert cached == checker.check(doc.text, prose_spans(doc.text, kind))
+        assert cached == full_check(doc.text, kind, checker)

@@ -42,9 +42,19 @@ def test_inline_markup():
         "Use ``literal`` and :func:`os.path.join` and :ref:`Shown text <label>` and "
         ":doc:`install` and `hyperlink <http://x.y>`_ and `Named`_ and `default role` and |sub| [1]_ done.\n"
     )
+    # A bare :doc:`install` shows the document's title, not "install" (Sphinx
+    # documentation, "Cross-referencing documents"): not prose here.
     assert texts(doc) == [
-        "Use", "and", "and", "Shown text", "and", "install", "and", "hyperlink", "and", "Named", "and", "and", "done.",
+        "Use", "and", "and", "Shown text", "and", "and", "hyperlink", "and", "Named", "and", "and", "done.",
     ]
+
+
+def test_bare_reference_roles_are_labels():
+    # Sphinx shows the section title for :ref:`label` and the document title for
+    # :doc:`path` (Sphinx documentation, "Cross-referencing arbitrary locations");
+    # the label is an identifier.  :term:`word` shows the word itself.
+    doc = "See :ref:`dbschema` and :numref:`fig-one` or :any:`thing` for :term:`coverage data` details.\n"
+    assert texts(doc) == ["See", "and", "or", "for", "coverage data", "details."]
 
 
 def test_literal_blocks():
@@ -177,3 +187,9 @@ def test_words_agree_with_docutils():
 def test_adversarial_inputs_do_not_raise(source: str):
     for s in extract(source, "rst"):
         assert 0 <= s.start < s.end <= len(source)
+
+
+def test_code_tab_bodies_are_code():
+    # sphinx-tabs' ``code-tab`` directive (its documentation) holds code, like code-block.
+    doc = ".. tabs::\n\n    .. code-tab:: ini\n\n        [report]\n        @(abc\\.)?abstractmethod\n\n    Prose after.\n"
+    assert texts(doc) == ["Prose after."]

@@ -175,7 +175,11 @@ class Worker:
 
 
 def check_document(text: str, kind: str, project: Any, checker: Any) -> tuple[list[Any], list[str]]:
-    """Findings in one document's prose, after the project's ignore patterns cut theirs out."""
+    """Findings in one document's prose, after the project's ignore patterns cut theirs out.
+
+    Words beside inline code are scored with a placeholder for the code as
+    context (``text.formats.scoring_tokens``), as the model was trained.
+    """
     from calami.text.formats import ExtractOptions, extract
     from calami.text.spans import subtract
 
@@ -183,7 +187,16 @@ def check_document(text: str, kind: str, project: Any, checker: Any) -> tuple[li
     holes, notes = project.ignore_holes(text)
     if holes:
         spans = subtract(spans, holes)
-    return checker.check(text, spans), notes
+    score = getattr(checker, "check_sentence", None)
+    if score is None:  # a checker with only the whole-text entry point (test doubles)
+        return checker.check(text, spans), notes
+    from calami.text.formats.scoring_tokens import scoring_tokens
+    from calami.text.tokens import sentences
+
+    findings = []
+    for sentence in sentences(scoring_tokens(text, spans)):
+        findings.extend(score(sentence))
+    return findings, notes
 
 
 def _unpack_result(result: dict[str, Any]):

@@ -21,7 +21,8 @@ from typing import Callable, Protocol, Sequence
 
 from calami.findings import Finding
 from calami.text.spans import Span
-from calami.text.tokens import Token, sentences, tokenize
+from calami.text.formats.scoring_tokens import scoring_tokens
+from calami.text.tokens import Token, sentences
 
 
 class SentenceChecker(Protocol):
@@ -116,7 +117,7 @@ class FindingsCache:
         layout = [Span(first.start, first.end, first.kind, True), *group[1:]]
         relative: list[Finding] = []
         scored: list[tuple[SentenceKey, list[Finding]]] = []
-        for sentence in sentences(tokenize(text, layout)):
+        for sentence in sentences(scoring_tokens(text, layout)):
             start = sentence[0].start
             skey: SentenceKey = tuple((t.start - start, t.end - start, t.text, t.kind) for t in sentence)
             found = new_sentences.get(skey)

@@ -150,7 +150,7 @@ class _Scanner:
         if dm:
             name = dm.group("name").lower()
             short = name.rsplit(":", 1)[-1]
-            if short in SKIP_BODY:
+            if short in SKIP_BODY or short.startswith("code-"):  # code-tab (sphinx-tabs), code-example, ...
                 self.skip_indent = ind
                 return
             self.options_indent = ind

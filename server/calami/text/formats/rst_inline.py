@@ -2,7 +2,8 @@
 
 Holes: inline literals ````x````, interpreted text with a code-like role
 (``:func:`x```) or no role, the role names and ``<target>`` parts of
-roles that carry text (``:ref:`Title <label>```), hyperlink references'
+roles that carry text (``:ref:`Title <label>```), the whole of a bare
+``:ref:`label``` or ``:doc:`path``` (the reader sees the target's title), hyperlink references'
 ``<url>``, substitution references ``|name|``, footnote and citation
 references ``[1]_``, and field names at a line start (``:param x:``).
 Also used for Python docstrings.
@@ -19,6 +20,9 @@ TEXT_ROLES = frozenset(
     "ref doc term abbr emphasis strong sup sub subscript superscript guilabel menuselection dfn "
     "numref title-reference title t any".split()
 )
+
+# Roles whose bare content is a label or a path, not the text shown (Sphinx).
+LABEL_ROLES = frozenset("ref doc numref any".split())
 
 _NEXT = regex.compile(r"(?m)``|`|\||\[|(?<=^[ \t]*):(?=[^:\s])")
 _ROLE_BEFORE = regex.compile(r":(?P<role>[A-Za-z][\w:.+-]{0,60}):$")
@@ -89,6 +93,10 @@ def _interpreted(text: str, p: int, start: int, end: int, holes: list[tuple[int,
     is_reference = im.group("ref") is not None
     if role in TEXT_ROLES or (not role and is_reference):
         tm = _TARGET.search(text, body_start, body_end)
+        if tm is None and role in LABEL_ROLES:
+            # :ref:`label` shows the target's title, not the label: not prose here.
+            holes.append((role_start, im.end()))
+            return im.end()
         holes.append((role_start, body_start))  # role name and opening backtick
         if tm:
             holes.append((tm.start(), im.end()))
