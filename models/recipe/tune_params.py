@@ -101,11 +101,13 @@ def tune_realword(model, sentences) -> tuple[float, float]:
         for alpha in (0.99, 0.995, 0.999):
             model.params.alpha_confusable, model.params.alpha = alpha_conf, alpha
             r = score(Checker(model), corrupted, clean)
-            ok = r["precision"] >= 0.92 and r["clean_realword_per_1000"] <= 0.8
+            # Margin for the step from dev to unseen text: at most 0.5 false flags per 1,000 words.
+            ok = r["precision"] >= 0.92 and r["clean_realword_per_1000"] <= 0.5
             print(f"  alpha_confusable {alpha_conf:<5} alpha {alpha:<6} precision {r['precision']:.3f} recall {r['recall']:.3f}"
                   f" false/1000 {r['clean_realword_per_1000']:.2f}{'  *' if ok else ''}")
-            if ok and (best is None or r["recall"] > best[0]):
-                best = (r["recall"], alpha_conf, alpha)
+            key = (r["recall"], -r["clean_realword_per_1000"], r["precision"])
+            if ok and (best is None or key > best[0]):
+                best = (key, alpha_conf, alpha)
     if best is None:
         return 0.98, 0.999
     return best[1], best[2]

@@ -298,7 +298,9 @@ class Checker:
         for c in model.sound_index.get(sound_key(w), ()):
             if c not in found and abs(len(lexicon.keys[c]) - len(w)) <= 3:
                 found[c] = 3
-        wanted = [c for c in found if lexicon.is_variant(c, self.variant)]
+        # Short cased-only keys are abbreviations ("Th", "Tu"): never a fix for a typed word.
+        wanted = [c for c in found if lexicon.is_variant(c, self.variant)
+                  and (lexicon.flags[c] & LOWER or len(lexicon.keys[c]) > 3)]
         limit = model.params.max_nonword_candidates
         if not every_candidate and len(wanted) > limit:
             close = [c for c in wanted if found[c] <= 1]

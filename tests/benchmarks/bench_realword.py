@@ -108,13 +108,14 @@ def main() -> None:
     print(f"  untouched text: {s['clean_words']} words, real-word flags {s['clean_realword_per_1000']:.2f} per 1,000 words,"
           f" non-word flags {s['clean_nonword_per_1000']:.2f} per 1,000 words")
     if not args.no_curve:
-        print("\nalpha      precision  recall  false real-word flags per 1,000 clean words")
-        base_alpha = model.params.alpha
-        for alpha in (0.9, 0.95, 0.98, 0.99, 0.995, 0.998, 0.999, 0.9995, 0.9999):
-            model.params.alpha = alpha
+        print("\nalpha_confusable (P(no error) for confusion-set members; other words keep alpha)")
+        print("value      precision  recall  false real-word flags per 1,000 clean words")
+        base = model.params.alpha_confusable
+        for value in (0.3, 0.5, 0.6, 0.7, 0.8, 0.9, 0.95, 0.98, 0.99):
+            model.params.alpha_confusable = value
             r = score(Checker(model), corrupted, clean)
-            print(f"{alpha:<10} {r['precision']:>9.3f} {r['recall']:>7.3f}  {r['clean_realword_per_1000']:>6.2f}")
-        model.params.alpha = base_alpha
+            print(f"{value:<10} {r['precision']:>9.3f} {r['recall']:>7.3f}  {r['clean_realword_per_1000']:>6.2f}")
+        model.params.alpha_confusable = base
     print(f"\n({time.time() - t0:.0f} s)")
 
 

@@ -59,4 +59,4 @@ def test_deletion_neighbourhood_contents():
 
 def test_inconsistent_arrays_are_rejected():
     with pytest.raises(ValueError):
-        CandidateIndex(["a"], 2, [0, 0, 0, 0, 5], b"")
+        CandidateIndex(["a"], 2, [0, 0, 0, 0, 5], b"", b"")

@@ -71,3 +71,15 @@ def test_pruning_and_prior_keep_distributions_normalised(corpus):
     for v in ["<s>", "the", "of", "never-seen"]:
         assert math.isclose(sum(lm.prob(ids[w], ids[v]) for w in words), 1.0, abs_tol=1e-9)
     assert lm.prob(ids["never-seen"], ids["the"]) > 0
+
+
+def test_no_context_means_plain_frequency(corpus):
+    words = sorted({w for s in corpus for w in s} | {"<s>", "</s>"})
+    ids = {w: i for i, w in enumerate(words)}
+    counter = BigramCounter(len(words), ids["<s>"], ids["</s>"])
+    for s in corpus:
+        counter.add_sentence([ids[w] for w in s])
+    prior = [float(counter.unigrams.get(i, 0)) + 1.0 for i in range(len(words))]
+    lm = build_language_model(counter, prior, lam=0.3)
+    total = sum(prior)
+    assert all(math.isclose(lm.prob(i, None), prior[i] / total) for i in range(len(words)))

@@ -109,6 +109,7 @@ class Model:
                 "bucket_bits": self.candidates.bucket_bits,
                 "offsets": store.pack_array(array("I", self.candidates.offsets)),
                 "ids": store.pack_bytes(self.candidates.ids),
+                "tags": store.pack_bytes(self.candidates.tags),
             },
             "realword": {"start": store.pack_array(self.neighbours_start), "ids": store.pack_array(self.neighbours)},
             "sound": {"keys": store.pack_strings(sound_keys), "start": store.pack_array(sound_start), "ids": store.pack_array(sound_ids)},
@@ -127,7 +128,8 @@ class Model:
             **{name: store.unpack_array(l[name]) for name in ("ctx_count", "gamma", "cont", "prior", "row_start", "col", "cnt")},
         )
         c = payload["candidates"]
-        cand = CandidateIndex(keys, c["bucket_bits"], store.unpack_array(c["offsets"]), store.unpack_bytes(c["ids"]))
+        cand = CandidateIndex(keys, c["bucket_bits"], store.unpack_array(c["offsets"]), store.unpack_bytes(c["ids"]),
+                              store.unpack_bytes(c["tags"]))
         s = payload["sound"]
         sound_keys = store.unpack_strings(s["keys"])
         sound_start = store.unpack_array(s["start"])

@@ -31,7 +31,7 @@ from calami.model.candidates import CandidateIndex
 from calami.model.channel import train_channel, text_char_counts
 from calami.model.confusables import confusion_pairs
 from calami.model.language import BigramCounter, build_language_model
-from calami.model.lexicon import CORPUS, GB, LOWER, US, Lexicon
+from calami.model.lexicon import CORPUS, GB, LOWER, OTHER, US, Lexicon
 from calami.model.novel import NovelWordModel
 from calami.model.phonetic import sound_key
 from calami.text.tokens import SKIP, lm_units, sentences, tokenize
@@ -43,7 +43,7 @@ SCOWL_FAMILIES = {
     "british": GB,
     "british_z": GB,
     "canadian": 0,  # not read: en-CA is neither target variant
-    "variant_1": US | GB,  # common alternative spellings, accepted everywhere
+    "variant_1": OTHER,  # alternative spellings: right unless a variant is asked for
 }
 SCOWL_KINDS = ("words", "upper", "proper-names", "contractions", "abbreviations")
 

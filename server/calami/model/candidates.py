@@ -10,11 +10,11 @@ characters from the typed word and probes the index with each result.
 Layout (compact, no Python object per entry): the delete strings are hashed
 (CRC-32) into 2^b buckets; ``offsets`` (2^b + 1 entries) delimits each
 bucket's run in ``ids``, the key ids packed in 3 bytes each (the lexicon has
-fewer than 2^24 keys).  Hash collisions and the over-generation of the
-method are removed by verifying each hit with the exact bit-parallel OSA
-distance, so the result equals a brute-force scan of the lexicon.  Keeping
-no per-entry hash tag costs a few extra verifications per query but saves
-a fifth of the model file.
+fewer than 2^24 keys), and in ``tags``, 8 further bits of each entry's hash,
+which skip most bucket-mates without touching their keys.  What remains —
+rare tag collisions and the method's over-generation — is removed by
+verifying each hit with the exact bit-parallel OSA distance, so the result
+equals a brute-force scan of the lexicon.
 """
 
 from __future__ import annotations
@@ -51,14 +51,15 @@ def _hash(s: str) -> int:
 class CandidateIndex:
     """Deletion-neighbourhood index over the lexicon keys."""
 
-    def __init__(self, keys: Sequence[str], bucket_bits: int, offsets: Sequence[int], ids: bytes) -> None:
-        if len(offsets) != (1 << bucket_bits) + 1 or len(ids) != 3 * offsets[-1]:
+    def __init__(self, keys: Sequence[str], bucket_bits: int, offsets: Sequence[int], ids: bytes, tags: bytes) -> None:
+        if len(offsets) != (1 << bucket_bits) + 1 or len(ids) != 3 * offsets[-1] or len(tags) != offsets[-1]:
             raise ValueError("candidate index arrays are inconsistent")
         self.keys = keys
         self.bucket_bits = bucket_bits
         self.mask = (1 << bucket_bits) - 1
         self.offsets = offsets
         self.ids = ids
+        self.tags = tags
 
     @classmethod
     def build(cls, keys: Sequence[str], bucket_bits: int | None = None) -> "CandidateIndex":
@@ -84,25 +85,32 @@ class CandidateIndex:
         if len(keys) >= 1 << 24:
             raise ValueError("too many keys for 3-byte ids")
         ids = bytearray(3 * len(hashes))
+        tags = bytearray(len(hashes))
         for h, kid in zip(hashes, owners):
             b = h & mask
-            pos = 3 * fill[b]
-            fill[b] += 1
-            ids[pos : pos + 3] = kid.to_bytes(3, "little")
-        return cls(keys, bucket_bits, offsets, bytes(ids))
+            slot = fill[b]
+            fill[b] = slot + 1
+            ids[3 * slot : 3 * slot + 3] = kid.to_bytes(3, "little")
+            tags[slot] = h >> 24
+        return cls(keys, bucket_bits, offsets, bytes(ids), bytes(tags))
 
     def within(self, word: str, max_distance: int = MAX_DISTANCE) -> dict[int, int]:
         """Key id -> OSA distance, for every key within ``max_distance`` of ``word``."""
         if not word or len(word) > MAX_QUERY_LENGTH or max_distance > MAX_DISTANCE:
             return {}
         mask = self.mask
-        offsets, ids, keys = self.offsets, self.ids, self.keys
+        offsets, ids, tags, keys = self.offsets, self.ids, self.tags, self.keys
         from_bytes = int.from_bytes
         hits: set[int] = set()
         for s in deletion_neighbourhood(word, max_distance):
-            b = _hash(s) & mask
-            for pos in range(3 * offsets[b], 3 * offsets[b + 1], 3):
-                hits.add(from_bytes(ids[pos : pos + 3], "little"))
+            h = _hash(s)
+            b = h & mask
+            tag = h >> 24
+            lo, hi = offsets[b], offsets[b + 1]
+            slot = tags.find(tag, lo, hi) if hi > lo else -1
+            while slot >= 0:
+                hits.add(from_bytes(ids[3 * slot : 3 * slot + 3], "little"))
+                slot = tags.find(tag, slot + 1, hi)
         n = len(word)
         masks = pattern_masks(word)
         found: dict[int, int] = {}

@@ -55,10 +55,15 @@ class LanguageModel:
         return 0
 
     def prob(self, w: int, v: int | None) -> float:
-        """P(w | v); ``v`` None means no context (the unigram distribution)."""
-        p_uni = self.unigram(w)
+        """P(w | v); ``v`` None means no context at all.
+
+        Without context the right estimate is plain frequency (``prior``):
+        Kneser-Ney's continuation probability answers a different question
+        (how many contexts a word follows) and is meant only for backing off.
+        """
         if v is None:
-            return p_uni
+            return self.prior[w]
+        p_uni = self.unigram(w)
         c_v = self.ctx_count[v]
         if c_v == 0:
             return p_uni

@@ -15,8 +15,9 @@ US = 1  # accepted in en-US
 GB = 2  # accepted in en-GB
 LOWER = 4  # the all-lower-case form itself is a word (not only a cased name)
 CORPUS = 8  # admitted from the training corpus, not from the word lists
+OTHER = 16  # a less common variant spelling: right only when no variant is asked for
 
-VARIANT_BITS = {"any": US | GB, "en-US": US, "en-GB": GB}
+VARIANT_BITS = {"any": US | GB | OTHER, "en-US": US, "en-GB": GB}
 
 
 @dataclass(frozen=True, slots=True)
@@ -77,7 +78,7 @@ class Lexicon:
         case_ok = self._case_ok(word, key, flags)
         if not case_ok:
             return Lookup(kid, False)
-        wanted = VARIANT_BITS.get(variant, US | GB)
+        wanted = VARIANT_BITS.get(variant, US | GB | OTHER)
         if flags & wanted:
             return Lookup(kid, True)
         return Lookup(kid, False, other_variant=True)
@@ -104,7 +105,7 @@ class Lexicon:
         return self.cased.get(key, (key,))
 
     def is_variant(self, key_id: int, variant: str) -> bool:
-        return bool(self.flags[key_id] & VARIANT_BITS.get(variant, US | GB))
+        return bool(self.flags[key_id] & VARIANT_BITS.get(variant, US | GB | OTHER))
 
 
 def restore_case(typed: str, candidate_key: str, lexicon: Lexicon) -> str:

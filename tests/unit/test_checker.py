@@ -1,0 +1,147 @@
+"""The checker's decisions on the shipped model.
+
+The sentences are our own; they exercise behaviour (case, context, identifiers,
+adaptation), not accuracy, which the reference tests measure on real data.
+"""
+
+from __future__ import annotations
+
+from collections import Counter
+
+import pytest
+
+from calami.checker import Checker
+from calami.findings import NONWORD, REALWORD, Thresholds
+
+
+def words(findings):
+    return [(f.word, f.kind, f.best) for f in findings]
+
+
+def test_nonword_with_ranked_fix(checker):
+    found = checker.check("The parser will recieve the data.")
+    assert words(found) == [("recieve", NONWORD, "receive")]
+    probs = [s.probability for s in found[0].suggestions]
+    assert probs == sorted(probs, reverse=True) and 0 < sum(probs) <= 1.0 + 1e-9
+
+
+def test_case_is_restored_in_suggestions(checker):
+    assert checker.suggest("Teh")[0].text == "The"
+    assert checker.suggest("RECIEVE")[0].text == "RECEIVE"
+    assert checker.check("Teh parser stops.")[0].best == "The"
+
+
+def test_real_word_errors_in_context(checker):
+    assert words(checker.check("The file was loaded form disk.")) == [("form", REALWORD, "from")]
+    assert words(checker.check("Their is no cache for this table.")) == [("Their", REALWORD, "There")]
+
+
+def test_correct_prose_is_left_alone(checker):
+    text = ("The parser loads the file from disk and writes the result to the cache. "
+            "There is no cache for this table, so the query is slower than before.")
+    assert checker.check(text) == []
+
+
+def test_identifiers_urls_and_acronyms_are_never_flagged(checker):
+    text = "Call getUserNmae or parse_recieve_data, see https://exmaple.org/teh and the HTTPX API."
+    assert checker.check(text) == []
+
+
+def test_capitalised_unknown_name_inside_a_sentence_is_left_alone(checker):
+    assert checker.check("The data comes from Quillfern and is stored nightly.") == []
+
+
+def test_shouting_sentence_is_checked(checker):
+    found = checker.check("PLEASE DO NOT RECIEVE THE FILES.")
+    assert words(found) == [("RECIEVE", NONWORD, "RECEIVE")]
+
+
+def test_lone_acronym_is_not_checked(checker):
+    assert checker.check("Set RECIEVE in the file.") == []
+
+
+def test_suggest_keeps_a_correct_word_first_in_context(checker):
+    ranked = checker.suggest("from", "we loaded it", "disk")
+    assert ranked[0].text == "from"
+    ranked = checker.suggest("form", "the file was loaded", "disk")
+    assert ranked[0].text == "from"
+
+
+def test_missing_space_is_suggested(checker):
+    assert checker.suggest("alot")[0].text == "a lot"
+
+
+def test_variant_policy(model):
+    # en-GB includes the Oxford -ize spellings (SCOWL's british_z lists).
+    us = Checker(model, variant="en-US")
+    gb = Checker(model, variant="en-GB")
+    assert [(f.word, f.best) for f in us.check("The colour of the logo.")] == [("colour", "color")]
+    assert [(f.word, f.best) for f in gb.check("The color of the logo.")] == [("color", "colour")]
+    assert gb.check("The organization of the logo.") == []
+    assert Checker(model).check("The colour and the color of the logo.") == []
+
+
+class Memory:
+    """A minimal adaptation: accepted words, accepted fixes, ignores."""
+
+    def __init__(self, words=(), fixes=None, ignores=None):
+        self.words = set(words)
+        self.fixes = fixes or {}
+        self.ignores = Counter(ignores or {})
+
+    def accepts(self, word):
+        return word in self.words
+
+    def corrections(self, typed):
+        return self.fixes.get(typed, {})
+
+    def ignored(self, word):
+        return self.ignores[word]
+
+
+def test_accepted_words_are_never_flagged(model):
+    text = "The planner will recieve the readings."
+    assert [f.word for f in Checker(model).check(text)] == ["recieve"]
+    assert Checker(model, adaptations=[Memory(words={"recieve"})]).check(text) == []
+
+
+TYPO = "The valve wich opened at noon."
+
+
+def test_accepted_fixes_rise_and_become_confident(model):
+    plain = Checker(model).check(TYPO)
+    assert [s.text for s in plain[0].suggestions[:2]] == ["which", "with"] and not plain[0].confident
+    once = Checker(model, adaptations=[Memory(fixes={"wich": {"with": 1}})]).check(TYPO)
+    assert once[0].best == "with"
+    many = Checker(model, adaptations=[Memory(fixes={"wich": {"which": 4}})]).check(TYPO)
+    assert many[0].best == "which" and many[0].confident
+
+
+def test_ignoring_lowers_the_flag_probability(model):
+    base = Checker(model).check(TYPO)
+    ignored = Checker(model, adaptations=[Memory(ignores={"wich": 3})]).check(TYPO)
+    assert not ignored or ignored[0].confidence < base[0].confidence
+
+
+def test_thresholds_gate_hints(model):
+    confidence = Checker(model).check(TYPO)[0].confidence
+    above = confidence + (1.0 - confidence) / 2
+    assert Checker(model, thresholds=Thresholds(above, above)).check(TYPO) == []
+    found = Checker(model, thresholds=Thresholds(confidence / 2, confidence / 2)).check(TYPO)
+    assert found and found[0].confident
+
+
+def test_check_sentence_is_a_pure_function_of_tokens(checker):
+    from calami.text.tokens import sentences, tokenize
+
+    a = list(sentences(tokenize("It was loaded form disk.")))[0]
+    b = list(sentences(tokenize("Note. It was loaded form disk.")))[1]
+    assert [f.shifted(6) for f in checker.check_sentence(a)] == checker.check_sentence(b)
+    first = checker.check_sentence(a)
+    again = checker.check_sentence(a)
+    assert first == again
+
+
+@pytest.mark.parametrize("text", ["", "   ", "\x00\x01\x02", "😀" * 100, "a" * 10000, "--- *** ___"])
+def test_odd_input_does_not_raise(checker, text):
+    checker.check(text)
