@@ -3,7 +3,9 @@
     python tests/benchmarks/bench_model.py [--model PATH] [--runs 5]
 
 Load time is measured inside the child from just before ``load()`` to just
-after (the interpreter start-up and our imports are printed separately).
+after, and to the moment the candidate index (unpacked on a background
+thread) is ready; interpreter start-up and our imports are printed
+separately.
 """
 
 from __future__ import annotations
@@ -24,10 +26,12 @@ import calami.model, calami.checker
 t1 = time.perf_counter()
 model = calami.model.load(sys.argv[1] or None)
 t2 = time.perf_counter()
+model.candidates.wait()
+t2b = time.perf_counter()
 calami.checker.Checker(model).check("Teh parser loaded the file form disk.")
 t3 = time.perf_counter()
 rss = int(open('/proc/self/status').read().split('VmRSS:')[1].split()[0]) / 1024
-print(json.dumps({"import": t1 - t0, "load": t2 - t1, "first_check": t3 - t2, "rss_mb": rss}))
+print(json.dumps({"import": t1 - t0, "load": t2 - t1, "index_ready": t2b - t1, "first_check": t3 - t2b, "rss_mb": rss}))
 """
 
 
@@ -46,8 +50,9 @@ def main() -> None:
         runs.append(json.loads(out.stdout))
     med = {k: statistics.median(r[k] for r in runs) for k in runs[0]}
     print(f"model file {path}: {path.stat().st_size / 1e6:.1f} MB")
-    print(f"median of {args.runs} fresh processes: import {med['import'] * 1000:.0f} ms, load {med['load'] * 1000:.0f} ms,"
-          f" first check {med['first_check'] * 1000:.0f} ms, RSS after load {med['rss_mb']:.0f} MB")
+    print(f"median of {args.runs} fresh processes: import {med['import'] * 1000:.0f} ms, load() returns after"
+          f" {med['load'] * 1000:.0f} ms, candidate index ready (background unpacking) after {med['index_ready'] * 1000:.0f} ms,"
+          f" first check {med['first_check'] * 1000:.0f} ms, RSS {med['rss_mb']:.0f} MB")
 
 
 if __name__ == "__main__":

@@ -42,7 +42,9 @@ def test_round_trip_preserves_everything(tiny):
     assert loaded.lexicon.cased == model.lexicon.cased
     for name in ("ctx_count", "gamma", "cont", "prior", "row_start", "col", "cnt"):
         assert list(getattr(loaded.lm, name)) == list(getattr(model.lm, name)), name
+    loaded.candidates.wait()
     assert loaded.candidates.ids == model.candidates.ids
+    assert loaded.candidates.tags == model.candidates.tags
     assert list(loaded.neighbours) == list(model.neighbours)
     assert loaded.sound_index == model.sound_index
     assert loaded.channel.to_dict() == model.channel.to_dict()
@@ -108,3 +110,14 @@ def test_tiny_model_checks_context(tiny):
     found = variant.check("The colour of the cache.")
     assert [f.word for f in found] == ["colour"]
     assert Checker(model, variant="en-GB").check("The colour of the cache.") == []
+
+
+def test_index_unpacked_in_the_background_reports_failures_on_first_use():
+    from calami.model.candidates import CandidateIndex
+
+    def broken():
+        raise ValueError("bad blob")
+
+    index = CandidateIndex.unpacking(["a", "b"], 2, broken)
+    with pytest.raises(ValueError, match="bad blob"):
+        index.within("a")

@@ -54,7 +54,7 @@ class Model:
     candidates: CandidateIndex
     neighbours_start: array  # 'I', per key id: real-word neighbours within one edit
     neighbours: array  # 'I'
-    sound_index: dict[str, tuple[int, ...]]
+    sound_index: "SoundIndex | dict[str, tuple[int, ...]]"
     novel: NovelWordModel
     params: Params = field(default_factory=Params)
     header: dict[str, Any] = field(default_factory=dict)
@@ -86,12 +86,14 @@ class Model:
     # -- persistence -----------------------------------------------------------
 
     def to_payload(self) -> dict[str, Any]:
+        self.candidates.wait()
         lm = self.lm
-        sound_keys = sorted(self.sound_index)
+        index = dict(self.sound_index.items())
+        sound_keys = sorted(index)
         sound_start = array("I", [0])
         sound_ids = array("I")
         for k in sound_keys:
-            sound_ids.extend(self.sound_index[k])
+            sound_ids.extend(index[k])
             sound_start.append(len(sound_ids))
         return {
             "lexicon": {
@@ -128,13 +130,9 @@ class Model:
             **{name: store.unpack_array(l[name]) for name in ("ctx_count", "gamma", "cont", "prior", "row_start", "col", "cnt")},
         )
         c = payload["candidates"]
-        cand = CandidateIndex(keys, c["bucket_bits"], store.unpack_array(c["offsets"]), store.unpack_bytes(c["ids"]),
-                              store.unpack_bytes(c["tags"]))
-        s = payload["sound"]
-        sound_keys = store.unpack_strings(s["keys"])
-        sound_start = store.unpack_array(s["start"])
-        sound_ids = store.unpack_array(s["ids"])
-        sound_index = {k: tuple(sound_ids[sound_start[i] : sound_start[i + 1]]) for i, k in enumerate(sound_keys)}
+        cand = CandidateIndex.unpacking(keys, c["bucket_bits"], lambda: (
+            store.unpack_array(c["offsets"]), store.unpack_bytes(c["ids"]), store.unpack_bytes(c["tags"])))
+        sound_index = SoundIndex(payload["sound"])
         rw = payload["realword"]
         if lm.vocab_size != len(keys) + 3:
             raise ValueError("language model and lexicon disagree")
@@ -146,6 +144,35 @@ class Model:
 
     def save(self, path: Path, header: dict[str, Any]) -> int:
         return store.write_model(path, header, self.to_payload())
+
+
+class SoundIndex:
+    """Sound key -> key ids, expanded from the stored arrays on first use.
+
+    Only unknown words need it, so start-up does not pay for building it.
+    """
+
+    def __init__(self, stored: dict[str, Any]) -> None:
+        self._stored: dict[str, Any] | None = stored
+        self._index: dict[str, tuple[int, ...]] = {}
+
+    def _expand(self) -> dict[str, tuple[int, ...]]:
+        if self._stored is not None:
+            keys = store.unpack_strings(self._stored["keys"])
+            start = store.unpack_array(self._stored["start"])
+            ids = store.unpack_array(self._stored["ids"])
+            self._index = {k: tuple(ids[start[i] : start[i + 1]]) for i, k in enumerate(keys)}
+            self._stored = None
+        return self._index
+
+    def get(self, key: str, default=()):
+        return self._expand().get(key, default)
+
+    def items(self):
+        return self._expand().items()
+
+    def __eq__(self, other: object) -> bool:
+        return dict(self.items()) == dict(other.items()) if hasattr(other, "items") else NotImplemented
 
 
 def default_model_path() -> Path:

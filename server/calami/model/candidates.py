@@ -19,6 +19,7 @@ equals a brute-force scan of the lexicon.
 
 from __future__ import annotations
 
+import threading
 import zlib
 from array import array
 from typing import Iterable, Sequence
@@ -98,6 +99,7 @@ class CandidateIndex:
         """Key id -> OSA distance, for every key within ``max_distance`` of ``word``."""
         if not word or len(word) > MAX_QUERY_LENGTH or max_distance > MAX_DISTANCE:
             return {}
+        self.wait()
         mask = self.mask
         offsets, ids, tags, keys = self.offsets, self.ids, self.tags, self.keys
         from_bytes = int.from_bytes
@@ -123,7 +125,44 @@ class CandidateIndex:
                 found[kid] = d
         return found
 
+    @classmethod
+    def unpacking(cls, keys: Sequence[str], bucket_bits: int, unpack) -> "CandidateIndex":
+        """An index whose arrays are decompressed on a background thread.
+
+        ``unpack()`` returns (offsets, ids, tags).  zlib releases the GIL, so
+        this overlaps with the rest of model loading; the first query waits
+        for it if it is not done yet.
+        """
+        index = cls.__new__(cls)
+        index.keys = keys
+        index.bucket_bits = bucket_bits
+        index.mask = (1 << bucket_bits) - 1
+        index._error = None
+
+        def work() -> None:
+            try:
+                offsets, ids, tags = unpack()
+                if len(offsets) != (1 << bucket_bits) + 1 or len(ids) != 3 * offsets[-1] or len(tags) != offsets[-1]:
+                    raise ValueError("candidate index arrays are inconsistent")
+                index.offsets, index.ids, index.tags = offsets, ids, tags
+            except Exception as exc:  # reported to the first caller
+                index._error = exc
+
+        index._loader = threading.Thread(target=work, name="calami-index", daemon=True)
+        index._loader.start()
+        return index
+
+    def wait(self) -> None:
+        """Block until the arrays are in memory; re-raise a failure to unpack them."""
+        loader = getattr(self, "_loader", None)
+        if loader is not None:
+            loader.join()
+            self._loader = None
+            if self._error is not None:
+                raise self._error
+
     def stats(self) -> dict[str, int]:
+        self.wait()
         return {"entries": len(self.ids) // 3, "buckets": 1 << self.bucket_bits}
 
 
