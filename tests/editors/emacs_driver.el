@@ -114,6 +114,14 @@
     (driver-run)
   (error (driver-put 'errors (vector (error-message-string err)))))
 (driver-put 'server_error (calami-eglot-last-error))
+(driver-put 'server_stderr
+            (mapconcat (lambda (buffer)
+                         (with-current-buffer buffer
+                           (buffer-substring-no-properties (max (point-min) (- (point-max) 3000))
+                                                           (point-max))))
+                       (cl-remove-if-not (lambda (b) (string-match-p "EGLOT.*stderr" (buffer-name b)))
+                                         (buffer-list))
+                       "\n"))
 (with-temp-file (getenv "CALAMI_TEST_OUT")
   (insert (json-encode driver-result)))
 (kill-emacs 0)

@@ -69,11 +69,11 @@ def test_emacs_eglot_shows_the_demo_hints_and_applies_the_preferred_fix(tmp_path
     )
     assert out.exists(), f"Emacs wrote no result (exit {proc.returncode}):\n{proc.stdout}\n{proc.stderr}"
     result = json.loads(out.read_text(encoding="utf-8"))
-    assert not result["errors"], (result["errors"], result["server_error"], proc.stderr)
+    assert not result["errors"], f"{result['errors']}\n{proc.stderr}\nserver stderr:\n{result['server_stderr']}"
     assert result["major_mode"] == "markdown-mode"
     assert result["managed"], f"Eglot did not start calami: {proc.stderr}"
     assert result["server_command"] == command  # calami-eglot-program was honoured
-    assert result["found"], f"no calami diagnostics within {WAIT_MS} ms: {result['server_error']}"
+    assert result["found"], f"no calami diagnostics within {WAIT_MS} ms:\n{result['server_stderr']}"
 
     got = result["diagnostics"]
     assert [(d["line"], d["col"], d["length"]) for d in got] == [

@@ -50,8 +50,11 @@ def run_neovim(tmp_path: Path, demo: Path, files: list[str], fix: tuple[int, int
         cwd=demo, env=env, stdin=subprocess.DEVNULL, capture_output=True, text=True,
         timeout=WAIT_MS / 1000 + 30,
     )
-    assert out.exists(), f"Neovim wrote no result (exit {proc.returncode}):\n{proc.stdout}\n{proc.stderr}"
+    log = Path(env["XDG_CACHE_HOME"]) / "nvim" / "lsp.log"  # Neovim 0.7's stdpath('cache')
+    log_tail = log.read_text(encoding="utf-8", errors="replace")[-3000:] if log.exists() else "(no LSP log)"
+    assert out.exists(), f"Neovim wrote no result (exit {proc.returncode}):\n{proc.stderr}\n{log_tail}"
     result = json.loads(out.read_text(encoding="utf-8"))
+    result["log_tail"] = log_tail
     assert not result["errors"], "\n".join(result["errors"])
     return result
 
@@ -65,8 +68,8 @@ def test_neovim_shows_the_demo_hints_and_applies_the_preferred_fix(tmp_path):
 
     result = run_neovim(tmp_path, demo, files, (target.line - 1, target.byte_col))
     errors = [m["msg"] for m in result["messages"] if m["level"] == 4]  # vim.log.levels.ERROR
-    assert not errors, errors
-    assert not result["server_gone"], f"calami serve stopped: {result['messages']}"
+    assert not errors, f"{errors}\nLSP log:\n{result['log_tail']}"
+    assert not result["server_gone"], f"calami serve stopped: {result['messages']}\n{result['log_tail']}"
 
     for file in files:
         seen = result["files"][file]
