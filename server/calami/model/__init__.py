@@ -29,11 +29,11 @@ class Params:
     """Decision constants tuned on held-out data (see models/README.md)."""
 
     alpha: float = 0.999  # P(no error) for a word that is in the lexicon
-    alpha_confusable: float = 0.6  # P(no error) for members of known confusion sets
+    alpha_confusable: float = 0.8  # P(no error) for members of known confusion sets
     realword_hint: float = 0.5  # posterior needed to flag a real word
     nonword_hint: float = 0.5
     confident: float = 0.95
-    oov_log_prior: float = 0.0  # added to the novel-word model's log P(spelling)
+    oov_log_prior: float = -2.0  # added to the novel-word model's log P(spelling)
     max_nonword_candidates: int = 60
     channel_weight: float = 1.0  # exponent on the error model against the language model
 
