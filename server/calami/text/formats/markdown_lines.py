@@ -6,6 +6,7 @@ Tabs count to the next multiple of four columns, as CommonMark says.
 from __future__ import annotations
 
 import regex
+from calami.text.formats.textscan import indent_from
 
 _FRONT_YAML = regex.compile(r"---[ \t]*(?:\r\n|\n|\r)")
 _FRONT_YAML_END = regex.compile(r"(?m)^(?:---|\.\.\.)[ \t]*(?:\r\n|\n|\r|\Z)")
@@ -38,18 +39,7 @@ def atx_content_end(text: str, start: int, end: int) -> int:
     return e
 
 
-def indent(text: str, pos: int, end: int, col: int) -> tuple[int, int]:
-    """Column reached and offset of the first non-blank at or after ``pos``."""
-    while pos < end:
-        c = text[pos]
-        if c == " ":
-            col += 1
-        elif c == "\t":
-            col += 4 - col % 4
-        else:
-            break
-        pos += 1
-    return col, pos
+indent = indent_from  # column reached and offset of the first non-blank at or after ``pos``
 
 
 def advance(text: str, pos: int, end: int, col: int, target: int) -> tuple[int, int]:

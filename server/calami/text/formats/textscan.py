@@ -84,8 +84,11 @@ def trim(text: str, start: int, end: int) -> tuple[int, int]:
 
 def indent_of(text: str, start: int, end: int) -> tuple[int, int]:
     """(column width with tabs to multiples of 4, offset of first non-blank)."""
-    col = 0
-    pos = start
+    return indent_from(text, start, end, 0)
+
+
+def indent_from(text: str, pos: int, end: int, col: int) -> tuple[int, int]:
+    """Column reached and offset of the first non-blank at or after ``pos``, starting at column ``col``."""
     while pos < end:
         c = text[pos]
         if c == " ":
