@@ -122,3 +122,28 @@ def test_cached_findings_equal_a_full_check_with_the_real_checker(initial, steps
         doc.apply([types.TextDocumentContentChangePartial(range=rng, text=new)], n)
         cached = doc.cache.findings(doc.text, prose_spans(doc.text, kind), checker)
         assert cached == full_check(doc.text, kind, checker)
+
+
+@settings(max_examples=150, deadline=None)
+@given(
+    initial=piece_text,
+    steps=st.lists(edits(), min_size=1, max_size=10),
+    encoding=st.sampled_from([UTF16, UTF8]),
+)
+def test_reused_wire_diagnostics_equal_fresh_ones(initial, steps, encoding):
+    # The published JSON reuses items from the previous publish; after any
+    # edits it must equal the JSON built from scratch for the same findings.
+    from calami.lsp.diagnostics import compute, to_wire, wire_diagnostics
+    from calami.lsp.settings import Settings
+
+    checker, settings = FakeChecker(), Settings()
+    doc = Document("file:///t.md", "markdown", 1, initial, encoding, "markdown")
+    wire_diagnostics(doc, compute(doc, doc.text, 1, checker, settings), settings)
+    for n, (a, b, new) in enumerate(steps, start=2):
+        positions = PositionMap(doc.text, encoding)
+        rng = types.Range(positions.position(int(a * len(doc.text))), positions.position(int(b * len(doc.text))))
+        doc.apply([types.TextDocumentContentChangePartial(range=rng, text=new)], n)
+        if n % 3 == 0:
+            continue  # sometimes two edits between publishes
+        findings = compute(doc, doc.text, n, checker, settings)
+        assert wire_diagnostics(doc, findings, settings) == [to_wire(f, doc, settings) for f in findings]

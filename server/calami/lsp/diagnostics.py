@@ -79,21 +79,58 @@ def to_wire(finding: Finding, doc: Document, settings: Settings) -> dict[str, An
 
 
 def wire_diagnostics(doc: Document, findings: list[Finding], settings: Settings) -> list[dict[str, Any]]:
-    """LSP JSON for all findings, reusing those before the first change since the last publish."""
+    """LSP JSON for all findings, reusing what the last publish sent where positions cannot have moved.
+
+    Reused: findings before the first change since the last publish, and,
+    when the changed text holds no line break before or after the edit,
+    findings on the lines after the edited one (same line and column,
+    offsets shifted by the edit's length change).
+    """
     key_settings = (settings.severity_nonword, settings.severity_realword, settings.max_suggestions)
     old = doc.wire if doc.wire.get("settings") == key_settings else {}
+    text = doc.text
     limit = doc.dirty_from
-    fresh: dict[Any, Any] = {"settings": key_settings}
+    after, delta = _unmoved_lines_from(old.get("text"), text)
+    fresh: dict[Any, Any] = {"settings": key_settings, "text": text}
     out = []
     for f in findings:
-        item = old.get(f) if f.end < limit else None
+        item = None
+        if f.end < limit:
+            item = old.get(f)
+        elif f.start >= after:
+            item = old.get(f.shifted(-delta) if delta else f)
         if item is None:
             item = to_wire(f, doc, settings)
         fresh[f] = item
         out.append(item)
     doc.wire = fresh
-    doc.dirty_from = len(doc.text) + 1
+    doc.dirty_from = len(text) + 1
     return out
+
+
+def _unmoved_lines_from(before: str | None, text: str) -> tuple[int, int]:
+    """(offset from which every line kept its number and content, length change) between two texts.
+
+    ``(len(text) + 1, 0)`` when unknown: the edit added or removed a line break.
+    """
+    none = (len(text) + 1, 0)
+    if before is None or before == text:
+        return none
+    from calami.text.formats.markdown_incremental import common_prefix, common_suffix
+
+    prefix = common_prefix(before, text)
+    suffix = common_suffix(before, text, min(len(before), len(text)) - prefix)
+    old_end, new_end = len(before) - suffix, len(text) - suffix
+    if any(c in "\r\n" for c in before[prefix:old_end]) or any(c in "\r\n" for c in text[prefix:new_end]):
+        return none
+    if prefix and text[prefix - 1] == "\r":
+        return none  # the edit may have joined or split a CRLF pair
+    n = text.find("\n", new_end)
+    r = text.find("\r", new_end, n if n >= 0 else len(text))
+    breaks = r if r >= 0 else n
+    if breaks < 0:
+        return none
+    return breaks + 1, len(text) - len(before)
 
 
 def compute(doc: Document, text: str, version: int, checker: Any, settings: Settings, project: Any = None) -> list[Finding]:
