@@ -33,7 +33,8 @@ from calami.text.tokens import BOS, CAPS, EOS, SKIP, UNK, Token, lm_units, sente
 MIN_NONWORD_LENGTH = 3  # shorter unknown tokens are abbreviations far more often than typos
 CONFUSABLE_Q = 0.02  # floor for Q(w | c) between members of a confusion set
 COMPOUND_LOG_RATE = math.log(0.05)  # a new word made of two listed words (our estimate, not fitted)
-PREFIX_LOG_RATE = math.log(0.001)  # a new word made of one letter and a listed word (ditto)
+PREFIX_LOG_RATE = math.log(0.001)
+NAME_LOG_PENALTY = math.log(0.1)  # a new word made of one letter and a listed word (ditto)
 
 
 class Adaptation(Protocol):
@@ -306,7 +307,10 @@ class Checker:
             close = [c for c in wanted if found[c] <= 1]
             far = sorted((c for c in wanted if found[c] > 1), key=lambda c: -prior[c])
             wanted = close + far[: max(0, limit - len(close))]
-        out = [(c, channel.log_q(w, lexicon.keys[c])) for c in wanted]
+        # A lower-case word typed for a name would also have lost its capital:
+        # a second, independent slip (0.1 is our estimate, not fitted).
+        out = [(c, channel.log_q(w, lexicon.keys[c]) + (0.0 if lexicon.flags[c] & LOWER else NAME_LOG_PENALTY))
+               for c in wanted]
         return self._channel_cache.put(key, out)
 
     def _q(self, typed_id: int, intended_id: int) -> float:
