@@ -34,7 +34,10 @@ MIN_NONWORD_LENGTH = 3  # shorter unknown tokens are abbreviations far more ofte
 CONFUSABLE_Q = 0.02  # floor for Q(w | c) between members of a confusion set
 COMPOUND_LOG_RATE = math.log(0.05)  # a new word made of two listed words (our estimate, not fitted)
 PREFIX_LOG_RATE = math.log(0.001)
-NAME_LOG_PENALTY = math.log(0.1)  # a new word made of one letter and a listed word (ditto)
+NAME_LOG_PENALTY = math.log(0.1)
+# Words of one or two letters that a run-together pair may contain ("alot" ->
+# "a lot", "inthe" -> "in the"); other short keys ("ed", "th") are abbreviations.
+SHORT_WORDS = frozenset("a i an as at be by do go he if in is it me my no of on or so to up us we".split())  # a new word made of one letter and a listed word (ditto)
 
 
 class Adaptation(Protocol):
@@ -280,7 +283,7 @@ class Checker:
             ka, kb = lexicon.ids.get(a), lexicon.ids.get(b)
             if ka is None or kb is None or not (lexicon.flags[ka] & LOWER and lexicon.flags[kb] & LOWER):
                 continue
-            if (len(a) == 1 and a not in ("a", "i")) or (len(b) == 1 and b not in ("a", "i")):
+            if (len(a) < 3 and a not in SHORT_WORDS) or (len(b) < 3 and b not in SHORT_WORDS):
                 continue
             h = self.log_error + log_q + self._lp(ka, left) + self._lp(kb, ka) + self._lp(right, kb)
             out.append((a + " " + b, h))
