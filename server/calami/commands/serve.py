@@ -5,6 +5,7 @@ from __future__ import annotations
 import argparse
 import ipaddress
 import logging
+from pathlib import Path
 from typing import Any, Sequence
 
 from calami.errors import CalamiError
@@ -50,7 +51,7 @@ class ModelCheckers:
 
     def model_for(self, path: str) -> Any:
         if not path or path in self.failed:
-            return self.default
+            return self.default.get() if hasattr(self.default, "get") else self.default
         if path not in self.models:
             from calami.model import load
 
@@ -59,7 +60,7 @@ class ModelCheckers:
             except (CalamiError, OSError) as exc:
                 self.failed.add(path)
                 logging.getLogger("calami.lsp").error("calami: calami.modelPath: %s; using the default model", exc)
-                return self.default
+                return self.model_for("")
         return self.models[path]
 
     def __call__(self, adaptations: Sequence[Any], settings: Any) -> Any:
@@ -96,19 +97,29 @@ def run(args: argparse.Namespace) -> int:
 
     logs.to_stderr(getattr(logging, args.log_level.upper()))
     address = parse_address(args.tcp) if args.tcp else None
-    model = load_model(args.model)
+    from calami.model import default_model_path
+
+    path = Path(args.model).expanduser() if args.model else default_model_path()
+    if not path.is_file():  # the cheap part of load_model's checks, before answering anyone
+        load_model(args.model)
+    from calami.lsp.background import BackgroundModel
+
+    # Loaded once the client has its initialize answer (see lsp/background.py).
+    model = BackgroundModel(lambda: load_model(args.model))
 
     from calami.lsp.server import build_server
     from calami.vocab.profile import Profile
 
-    server = build_server(ModelCheckers(model, args.model), Profile())
+    server = build_server(ModelCheckers(model, args.model), Profile(), warm_up=model.start)
     if address is None:
         server.start_io()
+        model.get()  # a broken model still ends with one line and status 2, client or not
     else:
         host, port = address
         if not _is_loopback(host):
             logging.getLogger("calami.lsp").warning("calami: listening on %s, which is not a loopback address", host)
         server.start_tcp(host, port)
+        model.get()
     return 0
 
 
