@@ -65,3 +65,32 @@ def test_offsets_survive_emoji_and_cjk():
 def test_lm_units_lowercase_and_unknown():
     toks = tokenize("The getValue call")
     assert lm_units(toks) == ["the", "<unk>", "call"]
+
+
+def test_line_index_handles_every_line_ending():
+    from hypothesis import given, settings
+    from hypothesis import strategies as st
+
+    from calami.text.spans import LineIndex
+
+    @settings(max_examples=300, deadline=None)
+    @given(st.text(alphabet="ab\r\n😀", max_size=40))
+    def check(text):
+        index = LineIndex(text)
+        # Reference: split the way LSP defines lines.
+        starts, i = [0], 0
+        while i < len(text):
+            if text.startswith("\r\n", i):
+                i += 2
+                starts.append(i)
+            elif text[i] in "\r\n":
+                i += 1
+                starts.append(i)
+            else:
+                i += 1
+        assert index.line_starts == starts
+        for offset in range(len(text) + 1):
+            line, col = index.position(offset)
+            assert index.offset(line, col) == offset
+
+    check()

@@ -9,8 +9,12 @@ copies or rewrites text.  Offsets are Python string indices (code points).
 from __future__ import annotations
 
 import bisect
+import re
 from dataclasses import dataclass
 from typing import Iterable, Sequence
+
+
+_BREAK = re.compile(r"\r\n|\r|\n")
 
 
 @dataclass(frozen=True, slots=True)
@@ -81,19 +85,9 @@ class LineIndex:
     """
 
     def __init__(self, text: str) -> None:
-        starts = [0]
-        i = 0
-        n = len(text)
-        while True:
-            j = _next_break(text, i)
-            if j < 0:
-                break
-            i = j + 2 if text.startswith("\r\n", j) else j + 1
-            starts.append(i)
-            if i >= n:
-                break
-        self.line_starts = starts
-        self.length = n
+        # One scan for every break ("\r\n" before a lone "\r" or "\n").
+        self.line_starts = [0] + [m.end() for m in _BREAK.finditer(text)]
+        self.length = len(text)
 
     def position(self, offset: int) -> tuple[int, int]:
         """0-based (line, column in code points) of an offset."""
@@ -104,13 +98,3 @@ class LineIndex:
         if line >= len(self.line_starts):
             return self.length
         return min(self.line_starts[line] + column, self.length)
-
-
-def _next_break(text: str, start: int) -> int:
-    n = text.find("\n", start)
-    r = text.find("\r", start)
-    if n < 0:
-        return r
-    if r < 0:
-        return n
-    return min(n, r)
