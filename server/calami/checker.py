@@ -35,6 +35,9 @@ CONFUSABLE_Q = 0.02  # floor for Q(w | c) between members of a confusion set
 COMPOUND_LOG_RATE = math.log(0.05)  # a new word made of two listed words (our estimate, not fitted)
 PREFIX_LOG_RATE = math.log(0.001)
 NAME_LOG_PENALTY = math.log(0.1)
+FORMATION_LOG_RATE = math.log(0.02)  # a new word formed regularly from a listed one (our estimate)
+INFLECTIONS = ("s", "es", "ed", "d", "ing", "er", "ers")
+PREFIXES = ("re", "un", "pre", "de", "non", "sub", "multi", "auto", "inter", "over", "under", "co")
 # Words of one or two letters that a run-together pair may contain ("alot" ->
 # "a lot", "inthe" -> "in the"); other short keys ("ed", "th") are abbreviations.
 SHORT_WORDS = frozenset("a i an as at be by do go he if in is it me my no of on or so to up us we".split())  # a new word made of one letter and a listed word (ditto)
@@ -160,6 +163,8 @@ class Checker:
         look = lexicon.lookup(word, self.variant)
         w = core.lower()
         if look.accepted:
+            if lexicon.keys[look.key_id] != word.lower():
+                return None  # right as a possessive of a listed word; its stem's neighbours do not apply
             return self._check_realword(word, look.key_id, left, right)
         if look.key_id is not None and not look.other_variant:
             return None  # a listed word in an unusual case (e.g. "english"): not a spelling matter
@@ -254,6 +259,19 @@ class Checker:
             else:
                 continue
             best = max(best, score)
+        # Regular word formation: a listed word with an inflection or a prefix
+        # ("codebases", "prereleases", "deserializes").
+        for ending in INFLECTIONS:
+            if w.endswith(ending) and len(w) - len(ending) >= 3:
+                for stem in (w[: -len(ending)], w[: -len(ending)] + "e"):
+                    ks = lexicon.ids.get(stem)
+                    if ks is not None and lexicon.flags[ks] & LOWER:
+                        best = max(best, math.log(lm.unigram(ks)) + FORMATION_LOG_RATE)
+        for prefix in PREFIXES:
+            if w.startswith(prefix) and len(w) - len(prefix) >= 3:
+                ks = lexicon.ids.get(w[len(prefix):])
+                if ks is not None and lexicon.flags[ks] & LOWER:
+                    best = max(best, math.log(lm.unigram(ks)) + FORMATION_LOG_RATE)
         return best
 
     def _candidate_hypotheses(self, w: str, left: int, right: int, typed: str, every_candidate: bool):

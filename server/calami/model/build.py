@@ -72,8 +72,18 @@ class BuildConfig:
 # ------------------------------------------------------------------ lexicon
 
 
+# Forms whose "'s" is "is"/"has", not a possessive: they stay words of their own
+# (the contraction lists, plus the common "'s" contractions the word lists mix
+# in with possessives; that list is common knowledge, not from a source).
+CONTRACTIONS: set[str] = {"it's", "that's", "there's", "here's", "he's", "she's", "what's", "who's",
+                          "where's", "let's", "how's", "when's", "why's"}
+
+
 def read_scowl(scowl_dir: Path, max_size: int) -> dict[str, int]:
-    """Surface form -> variant bits, from the SCOWL list files up to ``max_size``."""
+    """Surface form -> variant bits, from the SCOWL list files up to ``max_size``.
+
+    Forms from the contraction lists are added to CONTRACTIONS.
+    """
     forms: dict[str, int] = defaultdict(int)
     for path in sorted(scowl_dir.iterdir()):
         name, _, size = path.name.rpartition(".")
@@ -88,6 +98,8 @@ def read_scowl(scowl_dir: Path, max_size: int) -> dict[str, int]:
                 word = line.strip()
                 if word and "\ufffd" not in word:
                     forms[word] |= bits
+                    if kind == "contractions":
+                        CONTRACTIONS.add(word)
     return forms
 
 
@@ -96,7 +108,7 @@ def lexicon_from_forms(forms: dict[str, int]) -> tuple[list[str], bytearray, lis
     flags: dict[str, int] = defaultdict(int)
     cased: set[str] = set()
     for form, bits in forms.items():
-        if form.endswith("'s") and form[:-2] in forms:
+        if form.endswith("'s") and form[:-2] in forms and form not in CONTRACTIONS:
             continue  # possessives are derived at lookup time
         key = form.lower()
         if "\n" in key or not key:
