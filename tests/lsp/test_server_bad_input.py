@@ -12,14 +12,6 @@ from calami.lsp.documents import MAX_CHECKED_CHARS
 from session import edit, open_doc, published_for, start, stop, until
 
 
-@pytest.fixture
-def folder(tmp_path):
-    root = tmp_path / "proj"
-    root.mkdir()
-    (root / ".git").mkdir()
-    return root
-
-
 async def _still_serving(client, folder, name="alive.md"):
     uri = open_doc(client, folder / name, "teh\n")
     params = await until(lambda: published_for(client, uri, 1))

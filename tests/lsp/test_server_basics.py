@@ -8,14 +8,6 @@ from lsprotocol import types
 from session import capabilities, edit, open_doc, published_for, start, stop, until
 
 
-@pytest.fixture
-def folder(tmp_path):
-    root = tmp_path / "proj"
-    root.mkdir()
-    (root / ".git").mkdir()  # marks the project root
-    return root
-
-
 async def test_initialize_advertises_our_features(tmp_path, folder):
     client, result = await start(tmp_path / "profile", [folder])
     try:

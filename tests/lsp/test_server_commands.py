@@ -12,14 +12,6 @@ from calami.vocab.profile import Profile
 from session import open_doc, published_for, start, stop, until
 
 
-@pytest.fixture
-def folder(tmp_path):
-    root = tmp_path / "proj"
-    root.mkdir()
-    (root / ".git").mkdir()
-    return root
-
-
 def _actions(client, uri, diag):
     return client.text_document_code_action_async(
         types.CodeActionParams(types.TextDocumentIdentifier(uri), diag.range, types.CodeActionContext([diag]))

@@ -14,27 +14,13 @@ from session import REAL_SERVER, open_doc, published_for, start, stop, until
 
 HAVE_MODEL = default_model_path().exists()
 
-# A tiny model built with the real pipeline, so `calami serve` runs the real
-# Checker end to end even before the shipped model exists.
-CORPUS = [
-    "The parser reads the file from disk and writes the result to the cache.",
-    "There is no cache for the result when the file is missing.",
-    "We loaded the file from disk, then we parsed it.",
-] * 5
-WORDS = ("the parser reads file from disk and writes result to cache there is no for when missing "
-         "we loaded then parsed it form farm a an of or").split()
-
-
 @pytest.fixture(scope="module")
 def tiny_model(tmp_path_factory):
-    from calami.model.build import BuildConfig, build
-    from calami.model.lexicon import GB, US
+    """A tiny model built with the real pipeline (tests/tiny_model.py)."""
+    from tiny_model import build_tiny_model
 
-    cfg = BuildConfig(extra_words=[(w, US | GB) for w in WORDS], corpus_lines=CORPUS,
-                      pairs=[("teh", "the"), ("recieve", "receive"), ("form", "from")], admit_min_count=1000)
-    model, header = build(cfg)
     path = tmp_path_factory.mktemp("model") / "tiny.msgpack"
-    model.save(path, header)
+    build_tiny_model(path)
     return path
 
 

@@ -8,30 +8,13 @@ import pytest
 
 from calami.errors import ModelError
 from calami.model import Model, load
-from calami.model.build import BuildConfig, build
-from calami.model.lexicon import GB, US
+from tiny_model import build_tiny_model
 from calami.model.store import FORMAT, read_model
-
-CORPUS = [
-    "The parser reads the file from disk and writes the result to the cache.",
-    "There is no cache for the result when the file is missing.",
-    "Their parser is faster than the old one, and the cache is smaller than before.",
-    "We loaded the file from disk, then we parsed it.",
-] * 5
-
-WORDS = ("the parser reads file from disk and writes result to cache there is no for when missing their faster "
-         "than old one smaller before we loaded then parsed it form farm a an of or were where").split()
-
 
 @pytest.fixture(scope="module")
 def tiny(tmp_path_factory):
-    cfg = BuildConfig(extra_words=[(w, US | GB) for w in WORDS] + [("colour", GB), ("color", US), ("Python", US | GB)],
-                      corpus_lines=CORPUS, pairs=[("teh", "the"), ("recieve", "receive"), ("form", "from")],
-                      admit_min_count=1000)
-    model, header = build(cfg)
     path = tmp_path_factory.mktemp("model") / "tiny.msgpack"
-    model.save(path, header)
-    return model, path
+    return build_tiny_model(path), path
 
 
 def test_round_trip_preserves_everything(tiny):
