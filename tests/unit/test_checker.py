@@ -145,3 +145,20 @@ def test_check_sentence_is_a_pure_function_of_tokens(checker):
 @pytest.mark.parametrize("text", ["", "   ", "\x00\x01\x02", "😀" * 100, "a" * 10000, "--- *** ___"])
 def test_odd_input_does_not_raise(checker, text):
     checker.check(text)
+
+
+def test_regular_word_formation_and_compounds_are_not_flagged(checker):
+    assert checker.check("The codebases and prereleases were deserialized.") == []
+    assert checker.check("The xarray package is a timeframe helper.") == []
+
+
+def test_contractions_and_possessives_keep_their_own_identity(checker):
+    # "it's" is a word of its own (not "it" + possessive), so it never takes "it"'s neighbours.
+    assert checker.check("The result, it's said, is fine.") == []
+    assert checker.check("The parser's cache and the users' files are kept.") == []
+
+
+def test_short_abbreviations_are_never_offered_as_fixes(checker):
+    assert all(s.text != "Th" for s in checker.suggest("teh", limit=10))
+    assert all(len(s.text.split()[-1]) > 2 or s.text.split()[-1] in ("in", "is", "it", "of", "on", "to", "a")
+               for s in checker.suggest("occured", limit=10))
