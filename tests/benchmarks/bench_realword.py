@@ -9,7 +9,8 @@ published sets of Golding & Roth 1999 plus frequent one-edit slips, see
 calami/model/confusables.py) is replaced by another member of its set.
 The other half stay untouched.  Printed: detection precision and recall,
 correction accuracy, false flags per 1,000 words of untouched text, at the
-shipped settings; then a precision/recall curve over alpha.
+shipped settings; then precision/recall curves over alpha, for members of
+confusion sets and for every other word.
 """
 
 from __future__ import annotations
@@ -116,6 +117,14 @@ def main() -> None:
             r = score(Checker(model), corrupted, clean)
             print(f"{value:<10} {r['precision']:>9.3f} {r['recall']:>7.3f}  {r['clean_realword_per_1000']:>6.2f}")
         model.params.alpha_confusable = base
+        print("\nalpha (P(no error) for every other listed word)")
+        print("value      precision  recall  false real-word flags per 1,000 clean words")
+        base = model.params.alpha
+        for value in (0.9, 0.95, 0.99, 0.995, 0.999, 0.9999):
+            model.params.alpha = value
+            r = score(Checker(model), corrupted, clean)
+            print(f"{value:<10} {r['precision']:>9.3f} {r['recall']:>7.3f}  {r['clean_realword_per_1000']:>6.2f}")
+        model.params.alpha = base
     print(f"\n({time.time() - t0:.0f} s)")
 
 
