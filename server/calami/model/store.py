@@ -77,7 +77,7 @@ def read_model(path: Path) -> tuple[dict[str, Any], dict[str, Any]]:
     try:
         raw = path.read_bytes()
     except FileNotFoundError:
-        raise ModelError(f"model file not found at {path}; reinstall calami, or set calami.modelPath / CALAMI_MODEL to a model file") from None
+        raise ModelError(f"model file not found at {path}; reinstall calami, or point CALAMI_MODEL (or `calami serve --model`) at a model file") from None
     except OSError as exc:
         raise ModelError(f"cannot read model file {path}: {exc.strerror or exc}") from None
     try:
