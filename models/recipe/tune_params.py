@@ -28,7 +28,7 @@ from bench_realword import make_cases, score  # noqa: E402
 from calami.checker import Checker  # noqa: E402
 from calami.findings import NONWORD  # noqa: E402
 from calami.model import load  # noqa: E402
-from calami.model.channel import text_char_counts, train_channel  # noqa: E402
+from calami.model.build import error_model_trainer  # noqa: E402
 from calami.model.pairs import read_pairs, split  # noqa: E402
 from calami.model.store import read_model  # noqa: E402
 from calami.text.tokens import sentences as group_sentences, tokenize  # noqa: E402
@@ -44,17 +44,14 @@ def train_pairs() -> list[tuple[str, str]]:
 
 
 def tune_channel_weight(model, pairs) -> float:
-    keys, prior = model.lexicon.keys, model.lm.prior
-    chars, char_pairs = text_char_counts(zip(keys, prior))
-    ranked = sorted(range(len(keys)), key=lambda k: -prior[k])[:5000]
-    reference = [(keys[k], prior[k]) for k in ranked]
+    train = error_model_trainer(model.lexicon.keys, model.lm.prior)
     fold = lambda c: zlib.crc32(c.lower().encode()) % 2  # noqa: E731
     original = model.channel
     results = {}
     for weight in (1.0, 1.25, 1.5, 1.75, 2.0, 2.5):
         correct = total = 0
         for held in (0, 1):
-            model.channel = train_channel([p for p in pairs if fold(p[1]) != held], chars, char_pairs, reference_words=reference)
+            model.channel = train([p for p in pairs if fold(p[1]) != held])
             model.params.channel_weight = weight
             checker = Checker(model)
             for typed, right in [p for p in pairs if fold(p[1]) == held][::3]:

@@ -28,7 +28,7 @@ from calami.model.confusables import confusion_pairs
 from calami.model.lexicon import LOWER, restore_case
 from calami.model.phonetic import sound_key
 from calami.text.spans import Span
-from calami.text.tokens import BOS, CAPS, EOS, SKIP, UNK, Token, lm_units, sentences, tokenize
+from calami.text.tokens import BOS, CAPS, EOS, SKIP, Token, lm_units, sentences, tokenize
 
 MIN_NONWORD_LENGTH = 3  # shorter unknown tokens are abbreviations far more often than typos
 CONFUSABLE_Q = 0.02  # floor for Q(w | c) between members of a confusion set
@@ -146,8 +146,8 @@ class Checker:
         hyps = self._candidate_hypotheses(w, left_id, right_id, word, every_candidate=True)
         h0 = self._h0_known(look.key_id, left_id, right_id) if look.accepted else self._h0_unknown(
             w, left_id, right_id, word, capitalised_inside=False)
-        ranked = self._rank(word, hyps, h0, include_self=look.accepted, limit=limit)
-        return [Suggestion(text, prob) for text, prob in ranked]
+        total = _logsumexp([h0] + [h for _, h in hyps])
+        return self._ranked(word, hyps, total, limit, self_score=h0 if look.accepted else None)
 
     # ---------------------------------------------------------------- words
 
@@ -184,7 +184,7 @@ class Checker:
         p_wrong = 1.0 - math.exp(h0 - total)
         if p_wrong < self.thresholds.hint:
             return None
-        suggestions = self._suggestions(core, hyps, total, word)
+        suggestions = self._ranked(word, hyps, total, self.max_suggestions)
         confident = bool(suggestions) and suggestions[0].probability >= self.thresholds.confident
         return NONWORD, p_wrong, tuple(suggestions), confident
 
@@ -199,7 +199,7 @@ class Checker:
             log_alpha, log_error = self.log_alpha_conf, self.log_error_conf
         else:
             log_alpha, log_error = self.log_alpha, self.log_error
-        h0 = (log_alpha + self._lp(kid, left) + self._lp(right, kid)) + math.log1p(4.0 * self._ignored(word))
+        h0 = self._h0_known(kid, left, right, log_alpha) + math.log1p(4.0 * self._ignored(word))
         boosts = self._correction_boosts(word)
         hyps = []
         for c in nbrs:
@@ -214,16 +214,16 @@ class Checker:
         p_wrong = 1.0 - math.exp(h0 - total)
         if p_wrong < self.realword_hint:
             return None
-        suggestions = self._suggestions(word.lower(), hyps, total, word)
+        suggestions = self._ranked(word, hyps, total, self.max_suggestions)
         confident = bool(suggestions) and suggestions[0].probability >= self.thresholds.confident
         return REALWORD, p_wrong, tuple(suggestions), confident
 
     # ------------------------------------------------------------ hypotheses
 
-    def _h0_known(self, kid: int | None, left: int, right: int) -> float:
+    def _h0_known(self, kid: int | None, left: int | None, right: int | None, log_alpha: float | None = None) -> float:
         if kid is None:
             return -1e9
-        return self.log_alpha + self._lp(kid, left) + self._lp(right, kid)
+        return (self.log_alpha if log_alpha is None else log_alpha) + self._lp(kid, left) + self._lp(right, kid)
 
     def _h0_unknown(self, w: str, left: int, right: int, typed: str, capitalised_inside: bool) -> float:
         model = self.model
@@ -376,16 +376,6 @@ class Checker:
 
     # --------------------------------------------------------------- ranking
 
-    def _suggestions(self, typed_lower: str, hyps, total: float, typed: str) -> list[Suggestion]:
-        merged: dict[str, float] = {}
-        for c, h in sorted(hyps, key=lambda x: -x[1]):
-            text = self._display(typed, c)
-            if text not in merged:
-                merged[text] = math.exp(h - total)
-            if len(merged) >= self.max_suggestions:
-                break
-        return [Suggestion(t, p) for t, p in merged.items()]
-
     def _display(self, typed: str, candidate: int | str) -> str:
         """A candidate (key id, or a two-word string) written in the typed word's case."""
         if isinstance(candidate, str):
@@ -394,19 +384,23 @@ class Checker:
             return candidate[:1].upper() + candidate[1:] if typed[:1].isupper() else candidate
         return restore_case(typed, self.model.lexicon.keys[candidate], self.model.lexicon)
 
-    def _rank(self, typed: str, hyps, h0: float, include_self: bool, limit: int) -> list[tuple[str, float]]:
-        total = _logsumexp([h0] + [h for _, h in hyps]) if hyps else h0
-        scored = [(self._display(typed, c), h) for c, h in hyps]
-        if include_self:
-            scored.append((typed, h0))
+    def _ranked(self, typed: str, hyps, total: float, limit: int, self_score: float | None = None) -> list[Suggestion]:
+        """The best ``limit`` hypotheses as suggestions, written in the typed word's case.
+
+        ``self_score`` adds the word as typed (for ``suggest`` on a listed word).
+        """
+        scored = list(hyps)
+        if self_score is not None:
+            scored.append((None, self_score))
         scored.sort(key=lambda x: -x[1])
-        out: list[tuple[str, float]] = []
+        out: list[Suggestion] = []
         seen: set[str] = set()
-        for text, h in scored:
+        for c, h in scored:
+            text = typed if c is None else self._display(typed, c)
             if text in seen:
                 continue
             seen.add(text)
-            out.append((text, math.exp(h - total)))
+            out.append(Suggestion(text, math.exp(h - total)))
             if len(out) >= limit:
                 break
         return out

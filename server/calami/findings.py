@@ -7,7 +7,7 @@ offsets into the checked document, end exclusive.
 
 from __future__ import annotations
 
-from dataclasses import dataclass, field
+from dataclasses import dataclass
 
 NONWORD = "nonword"
 REALWORD = "realword"

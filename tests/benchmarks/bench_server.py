@@ -19,7 +19,6 @@ import argparse
 import asyncio
 import warnings
 import importlib
-import pkgutil
 import random
 import re
 import statistics
@@ -31,7 +30,6 @@ from typing import Any
 HERE = Path(__file__).resolve().parent
 sys.path.insert(0, str(HERE.parent / "lsp"))
 
-from lsprotocol import types  # noqa: E402
 
 import session  # noqa: E402
 

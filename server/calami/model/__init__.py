@@ -19,7 +19,7 @@ from calami.model.channel import ChannelModel
 from calami.model.language import LanguageModel
 from calami.model.lexicon import Lexicon
 from calami.model.novel import NovelWordModel
-from calami.text.tokens import BOS, EOS, UNK
+from calami.text.tokens import BOS, EOS
 
 MODEL_FILENAME = "calami-en.msgpack"
 

@@ -16,19 +16,17 @@ so the pipeline also runs, smaller, in tests without extra packages.
 
 from __future__ import annotations
 
-import math
-import os
 import time
 from array import array
 from collections import Counter, defaultdict
 from dataclasses import dataclass, field
 from datetime import datetime, timezone
 from pathlib import Path
-from typing import Callable, Iterable, Iterator, Sequence
+from typing import Callable, Iterator, Sequence
 
 from calami.model import Model, Params
 from calami.model.candidates import CandidateIndex
-from calami.model.channel import train_channel, text_char_counts
+from calami.model.channel import ChannelModel, text_char_counts, train_channel
 from calami.model.confusables import confusion_pairs
 from calami.model.language import BigramCounter, build_language_model
 from calami.model.lexicon import CORPUS, GB, LOWER, OTHER, US, Lexicon
@@ -72,18 +70,14 @@ class BuildConfig:
 # ------------------------------------------------------------------ lexicon
 
 
-# Forms whose "'s" is "is"/"has", not a possessive: they stay words of their own
-# (the contraction lists, plus the common "'s" contractions the word lists mix
-# in with possessives; that list is common knowledge, not from a source).
-CONTRACTIONS: set[str] = {"it's", "that's", "there's", "here's", "he's", "she's", "what's", "who's",
-                          "where's", "let's", "how's", "when's", "why's"}
+# "'s" forms that are "is"/"has", not possessives: they stay words of their own.
+# The word lists mix them in with possessives; this list is common knowledge.
+CONTRACTIONS = frozenset({"it's", "that's", "there's", "here's", "he's", "she's", "what's", "who's",
+                          "where's", "let's", "how's", "when's", "why's"})
 
 
 def read_scowl(scowl_dir: Path, max_size: int) -> dict[str, int]:
-    """Surface form -> variant bits, from the SCOWL list files up to ``max_size``.
-
-    Forms from the contraction lists are added to CONTRACTIONS.
-    """
+    """Surface form -> variant bits, from the SCOWL list files up to ``max_size``."""
     forms: dict[str, int] = defaultdict(int)
     for path in sorted(scowl_dir.iterdir()):
         name, _, size = path.name.rpartition(".")
@@ -98,8 +92,6 @@ def read_scowl(scowl_dir: Path, max_size: int) -> dict[str, int]:
                 word = line.strip()
                 if word and "\ufffd" not in word:
                     forms[word] |= bits
-                    if kind == "contractions":
-                        CONTRACTIONS.add(word)
     return forms
 
 
@@ -254,10 +246,8 @@ def build(cfg: BuildConfig) -> tuple[Model, dict]:
     lm = build_language_model(counter, prior, lam=cfg.lm_lam, min_count=cfg.lm_min_count)
     log(f"language model: {len(counter.bigrams)} bigram types, {len(lm.col)} stored (count >= {cfg.lm_min_count}), D = {lm.discount:.3f}")
 
-    chars, char_pairs = text_char_counts(zip(keys, prior))
+    channel = error_model_trainer(keys, prior)(cfg.pairs)
     by_prior = sorted(range(len(keys)), key=lambda k: -prior[k])
-    reference = [(keys[k], prior[k]) for k in by_prior[:5000]]
-    channel = train_channel(cfg.pairs, chars, char_pairs, reference_words=reference)
     log(f"error model: {len(cfg.pairs)} pairs; P(k edits) = {[round(x, 3) for x in channel.edits_k]}")
 
     candidates = CandidateIndex.build(keys)
@@ -309,6 +299,18 @@ def train_novel_model(keys: Sequence[str], prior: Sequence[float], corpus: Corpu
     lexicon_total = sum(p for _, p in words) or 1.0
     mixed = [(w, 0.5 * p / lexicon_total) for w, p in words] + [(w, 0.5 * c / jargon_total) for w, c in jargon]
     return NovelWordModel.train(mixed)
+
+
+def error_model_trainer(keys: Sequence[str], prior: Sequence[float]) -> Callable[[Sequence[tuple[str, str]]], ChannelModel]:
+    """Train error models on any set of pairs against this lexicon's text statistics.
+
+    Character counts come from the keys weighted by frequency; the 5,000 most
+    frequent keys set the reference scale of error rates.
+    """
+    chars, char_pairs = text_char_counts(zip(keys, prior))
+    top = sorted(range(len(keys)), key=lambda k: -prior[k])[:5000]
+    reference = [(keys[k], prior[k]) for k in top]
+    return lambda pairs: train_channel(pairs, chars, char_pairs, reference_words=reference)
 
 
 def realword_neighbours(

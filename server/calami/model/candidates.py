@@ -22,7 +22,7 @@ from __future__ import annotations
 import threading
 import zlib
 from array import array
-from typing import Iterable, Sequence
+from typing import Sequence
 
 from calami.model.distance import osa_distance, pattern_masks
 
@@ -164,15 +164,3 @@ class CandidateIndex:
     def stats(self) -> dict[str, int]:
         self.wait()
         return {"entries": len(self.ids) // 3, "buckets": 1 << self.bucket_bits}
-
-
-def brute_force_within(word: str, keys: Iterable[str], max_distance: int = MAX_DISTANCE) -> dict[str, int]:
-    """Reference scan used by tests and the benchmark's correctness check."""
-    masks = pattern_masks(word)
-    out = {}
-    for key in keys:
-        if abs(len(key) - len(word)) <= max_distance:
-            d = osa_distance(word, key, masks)
-            if d <= max_distance:
-                out[key] = d
-    return out

@@ -271,7 +271,6 @@ def train_channel(
     text_bigrams: Counter[str],
     *,
     beta: float = 0.5,
-    extra_edits: Iterable[tuple[tuple[str, str, str], float]] = (),
     reference_words: Sequence[tuple[str, float]] = (),
 ) -> ChannelModel:
     """Count edits in aligned pairs; scale text character counts to the pairs' size.
@@ -306,9 +305,6 @@ def train_channel(
         for kind, x, y in edits:
             target = {"del": dels, "ins": inss, "sub": subs, "trans": trans}[kind]
             target[x + y] += 1.0 / len(edits)
-    for (kind, x, y), weight in extra_edits:
-        target = {"del": dels, "ins": inss, "sub": subs, "trans": trans}[kind]
-        target[x + y] += weight
     total_text = sum(text_chars.values()) or 1
     scale = max(correct_chars, 1) / total_text
     unigrams = {c: n * scale for c, n in text_chars.items()}
@@ -340,18 +336,3 @@ def text_char_counts(words: Iterable[tuple[str, float]]) -> tuple[Counter[str], 
             prev = ch
         chars[START] += weight
     return chars, pairs
-
-
-def describe(edits: Sequence[tuple[str, str, str]]) -> str:
-    """Human-readable edit list for hover texts and debugging."""
-    out = []
-    for kind, x, y in edits:
-        if kind == "sub":
-            out.append(f"'{y}' typed as '{x}'")
-        elif kind == "del":
-            out.append(f"'{y}' left out")
-        elif kind == "ins":
-            out.append(f"extra '{y}'")
-        else:
-            out.append(f"'{x}{y}' swapped")
-    return ", ".join(out)

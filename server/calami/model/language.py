@@ -19,7 +19,6 @@ Storage is compact: per-context rows of sorted successor ids (CSR layout,
 from __future__ import annotations
 
 import bisect
-import math
 from array import array
 from collections import Counter
 from dataclasses import dataclass
@@ -69,14 +68,6 @@ class LanguageModel:
             return p_uni
         c_vw = self.bigram_count(v, w)
         return max(c_vw - self.discount, 0.0) / c_v + self.gamma[v] * p_uni
-
-    def logprob(self, w: int, v: int | None) -> float:
-        p = self.prob(w, v)
-        return math.log(p) if p > 0 else -1e9
-
-    def successors(self, v: int) -> tuple[array, array, int, int]:
-        """The stored row of context ``v`` (for ranking candidates by context)."""
-        return self.col, self.cnt, self.row_start[v], self.row_start[v + 1]
 
 
 class BigramCounter:

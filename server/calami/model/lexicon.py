@@ -46,12 +46,6 @@ class Lexicon:
     def __len__(self) -> int:
         return len(self.keys)
 
-    def __contains__(self, key: str) -> bool:
-        return key in self.ids
-
-    def id(self, key: str) -> int | None:
-        return self.ids.get(key)
-
     def lookup(self, word: str, variant: str = "any") -> Lookup:
         """Is ``word`` (as typed) right?  Handles case, possessives and variants."""
         word = word.replace("’", "'")

@@ -21,7 +21,7 @@ import copy
 import os
 import time
 from pathlib import Path
-from typing import Any, Callable, Iterable, Mapping
+from typing import Any, Callable, Mapping
 
 import msgpack
 

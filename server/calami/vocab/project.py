@@ -16,7 +16,7 @@ from __future__ import annotations
 
 import re
 import tomllib
-from dataclasses import dataclass, field, fields
+from dataclasses import dataclass, field
 from pathlib import Path
 from typing import Any, Mapping, Sequence
 
