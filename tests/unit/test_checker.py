@@ -162,3 +162,18 @@ def test_short_abbreviations_are_never_offered_as_fixes(checker):
     assert all(s.text != "Th" for s in checker.suggest("teh", limit=10))
     assert all(len(s.text.split()[-1]) > 2 or s.text.split()[-1] in ("in", "is", "it", "of", "on", "to", "a")
                for s in checker.suggest("occured", limit=10))
+
+
+def test_a_name_for_a_lower_case_typo_pays_a_second_slip(checker, model):
+    from calami.checker import NAME_LOG_PENALTY
+    from calami.model.lexicon import LOWER
+
+    lexicon = model.lexicon
+    scored = dict(checker._channel_candidates("harras", every_candidate=True))
+    names = [c for c in scored if not lexicon.flags[c] & LOWER]
+    words = [c for c in scored if lexicon.flags[c] & LOWER]
+    assert names and words
+    for c in names:
+        assert scored[c] == model.channel.log_q("harras", lexicon.keys[c]) + NAME_LOG_PENALTY
+    for c in words:
+        assert scored[c] == model.channel.log_q("harras", lexicon.keys[c])
