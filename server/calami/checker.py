@@ -34,9 +34,25 @@ MIN_NONWORD_LENGTH = 3  # shorter unknown tokens are abbreviations far more ofte
 CONFUSABLE_Q = 0.02  # floor for Q(w | c) between members of a confusion set
 COMPOUND_LOG_RATE = math.log(0.05)  # a new word made of two listed words (our estimate, not fitted)
 PREFIX_LOG_RATE = math.log(0.001)
+# Words with fewer candidates than this within distance 2 are also searched at distance 3.
+FAR_SEARCH_BELOW = 3
+FAR_KEPT = 8  # the most frequent of those distance-3 keys are kept
+# Candidates re-scored with multi-character rules when checking a document.
+RULE_RESCORED = 4
 NAME_LOG_PENALTY = math.log(0.1)
+# Share of a noun's uses that are possessive (our estimate, not fitted).
+POSSESSIVE_LOG_SHARE = math.log(0.01)
 FORMATION_LOG_RATE = math.log(0.02)  # a new word formed regularly from a listed one (our estimate)
 INFLECTIONS = ("s", "es", "ed", "d", "ing", "er", "ers")
+# English plurals not formed with -s take no further ending ("childrens" is
+# a possessive missing its apostrophe, not a new word); common knowledge.
+IRREGULAR_PLURALS = frozenset("children women men people feet teeth mice geese oxen brethren".split())
+
+
+def _irregular_plural(word: str) -> bool:
+    return word in IRREGULAR_PLURALS or word.endswith(("children", "women"))
+
+
 PREFIXES = ("re", "un", "pre", "de", "non", "sub", "multi", "auto", "inter", "over", "under", "co")
 # Words of one or two letters that a run-together pair may contain ("alot" ->
 # "a lot", "inthe" -> "in the"); other short keys ("ed", "th") are abbreviations.
@@ -265,7 +281,7 @@ class Checker:
             if w.endswith(ending) and len(w) - len(ending) >= 3:
                 for stem in (w[: -len(ending)], w[: -len(ending)] + "e"):
                     ks = lexicon.ids.get(stem)
-                    if ks is not None and lexicon.flags[ks] & LOWER:
+                    if ks is not None and lexicon.flags[ks] & LOWER and not _irregular_plural(stem):
                         best = max(best, math.log(lm.unigram(ks)) + FORMATION_LOG_RATE)
         for prefix in PREFIXES:
             if w.startswith(prefix) and len(w) - len(prefix) >= 3:
@@ -282,6 +298,7 @@ class Checker:
             h += boosts.get(self.model.lexicon.keys[c], 0.0)
             hyps.append((c, h))
         hyps.extend(self._split_hypotheses(w, left, right))
+        hyps.extend(self._possessive_hypotheses(w, left, right))
         # Fixes the user accepted before that the index does not reach.
         lexicon = self.model.lexicon
         for chosen, bonus in boosts.items():
@@ -307,6 +324,25 @@ class Checker:
             out.append((a + " " + b, h))
         return out
 
+    def _possessive_hypotheses(self, w: str, left: int | None, right: int | None) -> list[tuple[str, float]]:
+        """A possessive typed without its apostrophe ("childrens" -> "children's").
+
+        Possessives are not keys of the lexicon (they are derived when a
+        word is looked up), so the index cannot offer them.
+        """
+        lexicon = self.model.lexicon
+        if len(w) < 4 or not w.endswith("s") or w.endswith("'s"):
+            return []
+        out = []
+        for stem in (w[:-1], w[:-2] if w.endswith("ss") else None):
+            kid = lexicon.ids.get(stem) if stem else None
+            if kid is None or not lexicon.flags[kid] & LOWER or stem.endswith("s"):
+                continue
+            lq = self.channel_weight * self.model.channel.log_q(w, stem + "'s")
+            h = self.log_error + lq + POSSESSIVE_LOG_SHARE + self._lp(kid, left) + self._lp(right, kid)
+            out.append((stem + "'s", h))
+        return out
+
     def _channel_candidates(self, w: str, every_candidate: bool) -> list[tuple[int, float]]:
         """Candidate key ids with log Q(w | c); cached per typed word."""
         key = (w, every_candidate)
@@ -320,6 +356,10 @@ class Checker:
         for c in model.sound_index.get(sound_key(w), ()):
             if c not in found and abs(len(lexicon.keys[c]) - len(w)) <= 3:
                 found[c] = 3
+        if sum(1 for d in found.values() if d <= 2) < FAR_SEARCH_BELOW:
+            far = sorted(model.candidates.at_three(w), key=lambda c: -prior[c])
+            for c in far[:FAR_KEPT]:
+                found.setdefault(c, 3)
         # Short cased-only keys are abbreviations ("Th", "Tu"): never a fix for a typed word.
         wanted = [c for c in found if lexicon.is_variant(c, self.variant)
                   and (lexicon.flags[c] & LOWER or len(lexicon.keys[c]) > 3)]
@@ -330,8 +370,18 @@ class Checker:
             wanted = close + far[: max(0, limit - len(close))]
         # A lower-case word typed for a name would also have lost its capital:
         # a second, independent slip (0.1 is our estimate, not fitted).
-        out = [(c, channel.log_q(w, lexicon.keys[c]) + (0.0 if lexicon.flags[c] & LOWER else NAME_LOG_PENALTY))
-               for c in wanted]
+        keys, flags = lexicon.keys, lexicon.flags
+        if every_candidate or len(wanted) <= RULE_RESCORED:
+            scored = {c: channel.log_q(w, keys[c]) for c in wanted}
+        else:
+            # Checking a document: single-letter edits score every candidate;
+            # the multi-character rules (which only ever raise a score) then
+            # re-score the likeliest few.  The rest keep a lower bound.
+            scored = {c: channel.log_q(w, keys[c], rules=False) for c in wanted}
+            top = sorted(wanted, key=lambda c: -(scored[c] + math.log(prior[c])))[:RULE_RESCORED]
+            for c in top:
+                scored[c] = channel.log_q(w, keys[c])
+        out = [(c, scored[c] + (0.0 if flags[c] & LOWER else NAME_LOG_PENALTY)) for c in wanted]
         return self._channel_cache.put(key, out)
 
     def _q(self, typed_id: int, intended_id: int) -> float:
@@ -340,7 +390,7 @@ class Checker:
         q = self._q_cache.get(key)
         if q is None:
             keys = self.model.lexicon.keys
-            q = self.model.channel.log_q(keys[typed_id], keys[intended_id])
+            q = self.model.channel.log_q(keys[typed_id], keys[intended_id], rules=False)
             if key in self._confusable:
                 q = max(q, math.log(CONFUSABLE_Q))
             q *= self.channel_weight

@@ -60,3 +60,30 @@ def test_deletion_neighbourhood_contents():
 def test_inconsistent_arrays_are_rejected():
     with pytest.raises(ValueError):
         CandidateIndex(["a"], 2, [0, 0, 0, 0, 5], b"", b"")
+
+
+def test_distance_three_fallback_is_a_verified_subset_of_the_scan(model):
+    """at_three() is partial by design; whatever it returns must be exactly distance 3 (rapidfuzz OSA)."""
+    keys = model.lexicon.keys
+    found_any = 0
+    for q in dev_queries(30):
+        ours = {keys[k]: d for k, d in model.candidates.at_three(q).items()}
+        ref = {m for m, d, _ in process.extract(q, keys, scorer=OSA.distance, score_cutoff=3, limit=None) if d == 3}
+        assert set(ours) <= ref, q
+        assert set(ours.values()) <= {3}
+        found_any += len(ours)
+    assert found_any > 0
+
+
+def test_distance_three_fallback_reaches_far_misspellings(model):
+    # Pairs from the train split of toefl-spell / wikipedia-mitton (models/data/misspellings), OSA distance 3.
+    keys = model.lexicon.keys
+    for typed, intended in [("nessecary", "necessary"), ("pususading", "persuading"), ("exagerrerated", "exaggerated")]:
+        assert OSA.distance(typed, intended) == 3
+        assert intended in {keys[k] for k in model.candidates.at_three(typed)}
+
+
+def test_distance_three_fallback_skips_short_and_non_ascii_words(model):
+    assert model.candidates.at_three("장준영") == {}
+    assert model.candidates.at_three("türkçe") == {}
+    assert model.candidates.at_three("xqzt") == {}

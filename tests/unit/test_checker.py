@@ -177,3 +177,19 @@ def test_a_name_for_a_lower_case_typo_pays_a_second_slip(checker, model):
         assert scored[c] == model.channel.log_q("harras", lexicon.keys[c]) + NAME_LOG_PENALTY
     for c in words:
         assert scored[c] == model.channel.log_q("harras", lexicon.keys[c])
+
+
+def test_a_possessive_without_its_apostrophe_is_offered(checker):
+    # Possessives are not lexicon keys, so only the checker's own hypothesis can offer them.
+    found = checker.check("The childrens books were on the shelf.")
+    assert [f.word for f in found] == ["childrens"]
+    assert "children's" in [s.text for s in found[0].suggestions[:3]]
+    assert "Women's" in [s.text for s in checker.suggest("Womens", limit=3)]
+    # A plain plural of a listed word is never turned into a possessive.
+    assert checker.check("The books were on the shelves.") == []
+
+
+def test_words_spelled_far_off_still_get_a_fix(checker):
+    # OSA distance 3 from the intended word: reached by the distance-3 fallback.
+    assert checker.suggest("nessecary")[0].text == "necessary"
+    assert checker.check("It is not nessecary to restart.")[0].best == "necessary"

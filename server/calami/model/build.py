@@ -310,7 +310,8 @@ def error_model_trainer(keys: Sequence[str], prior: Sequence[float]) -> Callable
     chars, char_pairs = text_char_counts(zip(keys, prior))
     top = sorted(range(len(keys)), key=lambda k: -prior[k])[:5000]
     reference = [(keys[k], prior[k]) for k in top]
-    return lambda pairs: train_channel(pairs, chars, char_pairs, reference_words=reference)
+    words = list(zip(keys, prior))
+    return lambda pairs: train_channel(pairs, chars, char_pairs, reference_words=reference, rule_words=words)
 
 
 def realword_neighbours(

@@ -30,7 +30,12 @@ from collections import Counter
 from dataclasses import dataclass, field
 from typing import Iterable, Sequence
 
-START = "^"
+from calami.model.alignment import START, align
+from calami.model.rules import BEGIN, END, MAX_SIDE, RuleTable
+
+MARGIN = 2  # matched characters kept around the differing middle, for rule context
+BOUNDS = (BEGIN, END)
+
 LETTERS = "abcdefghijklmnopqrstuvwxyz'"
 
 # QWERTY rows; adjacency = same or neighbouring row within one column (common practice).
@@ -52,60 +57,6 @@ def adjacent(a: str, b: str) -> bool:
     return b in KEYBOARD.get(a, ())
 
 
-# ---------------------------------------------------------------- alignment
-
-
-def align(typed: str, intended: str) -> list[tuple[str, str, str]] | None:
-    """Unit-cost OSA alignment as a list of edits (kind, x, y), or None if equal.
-
-    Edits use the conventions of the module docstring; x is the context
-    character for del/ins/trans, the typed character for sub.
-    """
-    n, m = len(typed), len(intended)
-    INF = 1 << 30
-    d = [[INF] * (m + 1) for _ in range(n + 1)]
-    for i in range(n + 1):
-        d[i][0] = i
-    for j in range(m + 1):
-        d[0][j] = j
-    for i in range(1, n + 1):
-        for j in range(1, m + 1):
-            cost = 0 if typed[i - 1] == intended[j - 1] else 1
-            best = min(d[i - 1][j] + 1, d[i][j - 1] + 1, d[i - 1][j - 1] + cost)
-            if i > 1 and j > 1 and typed[i - 1] == intended[j - 2] and typed[i - 2] == intended[j - 1]:
-                best = min(best, d[i - 2][j - 2] + 1)
-            d[i][j] = best
-    edits: list[tuple[str, str, str]] = []
-    i, j = n, m
-    while i > 0 or j > 0:
-        if i > 0 and j > 0 and typed[i - 1] == intended[j - 1] and d[i][j] == d[i - 1][j - 1]:
-            i, j = i - 1, j - 1
-            continue
-        if i > 0 and j > 0 and d[i][j] == d[i - 1][j - 1] + 1:
-            edits.append(("sub", typed[i - 1], intended[j - 1]))
-            i, j = i - 1, j - 1
-            continue
-        if (i > 1 and j > 1 and typed[i - 1] == intended[j - 2] and typed[i - 2] == intended[j - 1]
-                and d[i][j] == d[i - 2][j - 2] + 1):
-            edits.append(("trans", intended[j - 2], intended[j - 1]))
-            i, j = i - 2, j - 2
-            continue
-        if j > 0 and d[i][j] == d[i][j - 1] + 1:
-            prev = intended[j - 2] if j > 1 else START
-            if j < m and intended[j] == intended[j - 1]:
-                prev = intended[j - 1]  # one of a doubled letter dropped: always "del[x, x]"
-            edits.append(("del", prev, intended[j - 1]))
-            j -= 1
-            continue
-        prev = typed[i - 2] if i > 1 else START
-        if i < n and typed[i] == typed[i - 1]:
-            prev = typed[i - 1]  # a letter typed twice: always "ins[x, x]"
-        edits.append(("ins", prev, typed[i - 1]))
-        i -= 1
-    edits.reverse()
-    return edits or None
-
-
 # ---------------------------------------------------------------- the model
 
 
@@ -125,6 +76,7 @@ class ChannelModel:
     first_factor: float = 1.0  # how much rarer an edit is at the first letter than elsewhere
     split_share: float = 0.01  # share of errors that are a missing space between two words
     z_ref: float = 0.0  # Z of an average word in running text (0: normalise per word)
+    rules: RuleTable = field(default_factory=lambda: RuleTable({}, {}, 0.0))
     _sub_total: dict[str, float] = field(default_factory=dict, repr=False)
     _ins_total: dict[str, float] = field(default_factory=dict, repr=False)
 
@@ -136,6 +88,16 @@ class ChannelModel:
         self._log_first = math.log(k[0])
         # Each edit after the first costs the ratio of successive P(k).
         self._log_more = math.log(max(k[1], 1e-6) / k[0])
+        self._cost_cache: dict[tuple[str, str, str], float] = {}
+
+    def _neg_log_rate(self, kind: str, x: str, y: str) -> float:
+        """-log rate of one single-letter edit ("s"ub t,c / "d"el / "i"ns / "t"rans x,y), cached."""
+        key = (kind, x, y)
+        v = self._cost_cache.get(key)
+        if v is None:
+            rate = {"s": self.sub_rate, "d": self.del_rate, "i": self.ins_rate, "t": self.trans_rate}[kind](x, y)
+            v = self._cost_cache[key] = -math.log(rate)
+        return v
 
     # -- rates (smoothed) ---------------------------------------------------
 
@@ -188,22 +150,28 @@ class ChannelModel:
             prev = ch
         return z
 
-    def log_q(self, typed: str, intended: str) -> float:
-        """log Q(typed | intended): the typo's probability given that an error occurred."""
+    def log_q(self, typed: str, intended: str, rules: bool = True) -> float:
+        """log Q(typed | intended): the typo's probability given that an error occurred.
+
+        ``rules=False`` scores single-letter edits only: the real-word check
+        uses that, because rules learned from non-word misspellings
+        ("d$" -> "$") make slips between short frequent words ("and"/"an")
+        look far likelier than they are in edited prose.
+        """
         if typed == intended:
             return 0.0
         # Longer words offer more ways to go wrong *and* go wrong more often;
         # the two cancel, so rates are compared on one scale (as in Kernighan,
         # Church & Gale), normalised by the Z of an average word.
         log_z = math.log(self.z_ref if self.z_ref > 0 else self.total_rate(intended))
-        cost = self._cheapest_path(typed, intended, log_z)
+        cost = self._cheapest_path(typed, intended, log_z, rules)
         return self._log_first - cost
 
-    def _cheapest_path(self, typed: str, intended: str, log_z: float) -> float:
-        """Weighted OSA: each edit costs -log(share) - log(P(k+1)/P(k))."""
+    def _cheapest_path(self, typed: str, intended: str, log_z: float, rules: bool = True) -> float:
+        """Weighted OSA plus multi-character rules; each edit costs -log(share) - log(P(k+1)/P(k))."""
         more = -self._log_more
-        # Strip the common prefix/suffix: alignment there is free anyway,
-        # but the context character of the first edit must be kept.
+        # Strip the common prefix/suffix: alignment there is free anyway, but
+        # keep MARGIN matched characters (or the word boundary) for context.
         p = 0
         while p < len(typed) and p < len(intended) and typed[p] == intended[p]:
             p += 1
@@ -211,41 +179,86 @@ class ChannelModel:
         while (s < len(typed) - p and s < len(intended) - p
                and typed[len(typed) - 1 - s] == intended[len(intended) - 1 - s]):
             s += 1
-        t = typed[p : len(typed) - s]
-        c = intended[p : len(intended) - s]
-        ctx_t = typed[p - 1] if p > 0 else START
-        ctx_c = intended[p - 1] if p > 0 else START
+        costs = self.rules.costs if rules else None
+        if costs:
+            a, b = max(0, p - MARGIN), max(0, s - MARGIN)
+            end = END if b == 0 else ""
+        else:
+            # Single-letter edits need one character of left context only.
+            a, b, end = max(0, p - 1), s, ""
+        t = (START if a == 0 else "") + typed[a : len(typed) - b] + end
+        c = (START if a == 0 else "") + intended[a : len(intended) - b] + end
+        # Index (in c) of the word's first letter, if the segment reaches it.
+        first = 1 if a == 0 else -1
 
-        def cost(rate: float) -> float:
-            return -(math.log(rate) - log_z) + more
-
+        # Every edit costs -log(rate) + (log_z + more); rates are cached per model.
+        step = log_z + more
+        nlr = self._neg_log_rate
         # Edits that change the first letter are rarer than elsewhere.
-        first_penalty = -math.log(self.first_factor) if p == 0 else 0.0
-
+        first_penalty = -math.log(self.first_factor)
         n, m = len(t), len(c)
+        # Rule transitions that fit here, by target cell: (i, j) <- (i0, j0) at a cost.
+        # Built once per pair, so the cell loop below pays only for rules that apply.
+        jumps: dict[tuple[int, int], list[tuple[int, int, float]]] = {}
+        if costs:
+            ends: dict[str, list[int]] = {}
+            for i in range(n + 1):
+                for lb in range(min(MAX_SIDE, i) + 1):
+                    ends.setdefault(t[i - lb : i], []).append(i)
+            for j in range(1, m + 1):
+                for la in range(1, min(MAX_SIDE, j) + 1):
+                    alpha = c[j - la : j]
+                    betas = costs.get(alpha)
+                    if not betas:
+                        continue
+                    j0 = j - la
+                    covers_first = j0 <= first < j
+                    for beta, rc in betas.items():
+                        at = ends.get(beta)
+                        if not at:
+                            continue
+                        if covers_first and alpha.lstrip(START)[:1] != beta.lstrip(START)[:1]:
+                            rc += first_penalty
+                        for i in at:
+                            jumps.setdefault((i, j), []).append((i - len(beta), j0, rc))
         INF = float("inf")
         d = [[INF] * (m + 1) for _ in range(n + 1)]
         d[0][0] = 0.0
         for i in range(n + 1):
+            ti = t[i - 1] if i > 0 else ""
+            prev_t = t[i - 2] if i > 1 else START
+            row, up = d[i], d[i - 1] if i > 0 else None
+            ins_ok = i > 0 and ti not in BOUNDS
             for j in range(m + 1):
                 if i == 0 and j == 0:
                     continue
                 best = INF
-                prev_c = c[j - 2] if j > 1 else ctx_c
-                prev_t = t[i - 2] if i > 1 else ctx_t
-                at_first = first_penalty if j <= 1 else 0.0
+                cj = c[j - 1] if j > 0 else ""
+                at_first = first_penalty if j - 1 == first else 0.0
                 if i > 0 and j > 0:
-                    if t[i - 1] == c[j - 1]:
-                        best = d[i - 1][j - 1]
-                    else:
-                        best = d[i - 1][j - 1] + cost(self.sub_rate(t[i - 1], c[j - 1])) + at_first
-                if j > 0:
-                    best = min(best, d[i][j - 1] + cost(self.del_rate(prev_c, c[j - 1])) + at_first)
-                if i > 0:
-                    best = min(best, d[i - 1][j] + cost(self.ins_rate(prev_t, t[i - 1])) + (first_penalty if j == 0 else 0.0))
-                if i > 1 and j > 1 and t[i - 1] == c[j - 2] and t[i - 2] == c[j - 1]:
-                    best = min(best, d[i - 2][j - 2] + cost(self.trans_rate(c[j - 2], c[j - 1])) + (first_penalty if j == 2 else 0.0))
-                d[i][j] = best
+                    if ti == cj:
+                        best = up[j - 1]
+                    elif ti not in BOUNDS and cj not in BOUNDS:
+                        best = up[j - 1] + nlr("s", ti, cj) + step + at_first
+                if j > 0 and cj not in BOUNDS:
+                    x = row[j - 1] + nlr("d", c[j - 2] if j > 1 else START, cj) + step + at_first
+                    if x < best:
+                        best = x
+                if ins_ok:
+                    x = up[j] + nlr("i", prev_t, ti) + step + (first_penalty if j == first else 0.0)
+                    if x < best:
+                        best = x
+                if (i > 1 and j > 1 and ti == c[j - 2] and prev_t == cj and ti != cj
+                        and ti not in BOUNDS and cj not in BOUNDS):
+                    x = d[i - 2][j - 2] + nlr("t", c[j - 2], cj) + step + (first_penalty if j - 2 == first else 0.0)
+                    if x < best:
+                        best = x
+                if jumps:
+                    for i0, j0, rc in jumps.get((i, j), ()):
+                        x = d[i0][j0] + rc + step
+                        if x < best:
+                            best = x
+                row[j] = best
         # The first edit is not charged the "more edits" ratio.
         return d[n][m] - more
 
@@ -257,12 +270,14 @@ class ChannelModel:
             "unigrams": self.unigrams, "bigrams": self.bigrams,
             "edits_k": self.edits_k, "beta": self.beta, "alphabet": self.alphabet,
             "first_factor": self.first_factor, "split_share": self.split_share, "z_ref": self.z_ref,
+            "rules": self.rules.to_dict(),
         }
 
     @classmethod
     def from_dict(cls, d: dict) -> "ChannelModel":
         return cls(d["del"], d["ins"], d["sub"], d["trans"], d["unigrams"], d["bigrams"],
-                   list(d["edits_k"]), d["beta"], d["alphabet"], d.get("first_factor", 1.0), d.get("split_share", 0.01), d.get("z_ref", 0.0))
+                   list(d["edits_k"]), d["beta"], d["alphabet"], d.get("first_factor", 1.0), d.get("split_share", 0.01), d.get("z_ref", 0.0),
+                   RuleTable.from_dict(d.get("rules")))
 
 
 def train_channel(
@@ -272,13 +287,18 @@ def train_channel(
     *,
     beta: float = 0.5,
     reference_words: Sequence[tuple[str, float]] = (),
+    rule_words: Sequence[tuple[str, float]] = (),
+    rule_discount: float = 1.0,
+    rule_min_count: int = 2,
 ) -> ChannelModel:
     """Count edits in aligned pairs; scale text character counts to the pairs' size.
 
     Pairs are lower-cased; pairs more than 3 edits apart are skipped for
     counting (they are not typing errors in the sense of this model) but
-    still counted in P(k edits).
+    still counted in P(k edits).  With ``rule_words`` (running-text words
+    and weights) multi-character rules are learned as well (see rules.py).
     """
+    used: list[tuple[str, str]] = []
     dels: Counter[str] = Counter()
     inss: Counter[str] = Counter()
     subs: Counter[str] = Counter()
@@ -302,6 +322,7 @@ def train_channel(
         if len(edits) > 3:
             continue
         correct_chars += len(intended)
+        used.append((typed, intended))
         for kind, x, y in edits:
             target = {"del": dels, "ins": inss, "sub": subs, "trans": trans}[kind]
             target[x + y] += 1.0 / len(edits)
@@ -318,6 +339,8 @@ def train_channel(
     split_share = max(splits / total_pairs, 1e-3) if total_pairs else 0.01
     model = ChannelModel(dict(dels), dict(inss), dict(subs), dict(trans), unigrams, bigrams, edits_k, beta,
                          first_factor=first_factor, split_share=split_share)
+    if rule_words:
+        model.rules = RuleTable.train(used, rule_words, scale, rule_discount, rule_min_count)
     if reference_words:
         weights = sum(w for _, w in reference_words) or 1.0
         model.z_ref = sum(model.total_rate(word) * w for word, w in reference_words) / weights
