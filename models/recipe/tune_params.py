@@ -2,9 +2,10 @@
 
     python models/recipe/tune_params.py MODEL [--dev build/corpus/dev-heldout.txt] [--write]
 
-Nothing here sees the benchmark data: the error-model weight is tuned by
-two-fold cross-validation on the *train* split of the misspelling pairs
-(the channel is retrained on one fold and scored on the other); the
+Nothing here sees the benchmark data: the error-model weight and the
+shared-sound factor are tuned by two-fold cross-validation on the *train*
+split of the misspelling pairs (the channel is retrained on one fold and
+scored on the other); the
 real-word constants on sentences of build/corpus/dev-heldout.txt (paragraphs
 held out of the training corpus); the unknown-word prior on the same
 sentences with dev-tuning misspellings planted in them.  Chosen values are
@@ -43,26 +44,42 @@ def train_pairs() -> list[tuple[str, str]]:
     return out
 
 
-def tune_channel_weight(model, pairs) -> float:
-    train = error_model_trainer(model.lexicon.keys, model.lm.prior)
-    fold = lambda c: zlib.crc32(c.lower().encode()) % 2  # noqa: E731
-    original = model.channel
-    results = {}
-    for weight in (1.0, 1.25, 1.5, 1.75, 2.0, 2.5):
-        correct = total = 0
-        for held in (0, 1):
-            model.channel = train([p for p in pairs if fold(p[1]) != held])
-            model.params.channel_weight = weight
-            checker = Checker(model)
-            for typed, right in [p for p in pairs if fold(p[1]) == held][::3]:
+class FoldedPairs:
+    """Two-fold cross-validation on the train pairs: the channel is retrained on one fold, scored on the other."""
+
+    def __init__(self, model, pairs) -> None:
+        train = error_model_trainer(model.lexicon.keys, model.lm.prior)
+        fold = lambda c: zlib.crc32(c.lower().encode()) % 2  # noqa: E731
+        self.model = model
+        self.folds = [(train([p for p in pairs if fold(p[1]) != held]),
+                       [p for p in pairs if fold(p[1]) == held][::3]) for held in (0, 1)]
+        self.total = sum(len(scored) for _, scored in self.folds)
+
+    def top1(self) -> float:
+        """Share of held-out pairs whose first suggestion (the typed word aside) is the correction."""
+        original = self.model.channel
+        correct = 0
+        for channel, scored in self.folds:
+            self.model.channel = channel
+            checker = Checker(self.model)
+            for typed, right in scored:
                 typed, right = typed.lower(), right.lower()
                 out = [s.text.lower() for s in checker.suggest(typed, limit=2) if s.text.lower() != typed]
                 correct += out[:1] == [right]
-                total += 1
-        results[weight] = correct / total
-        print(f"  channel weight {weight:<5} top-1 {100 * results[weight]:.1f}% ({total} pairs, 2 folds)")
-    model.channel = original
-    return max(results, key=results.get)
+        self.model.channel = original
+        return correct / self.total
+
+
+def tune_on_pairs(folded: FoldedPairs, name: str, values) -> float:
+    """The value of params.<name> with the best cross-validated top-1 (ties: the first listed)."""
+    results = {}
+    for value in values:
+        setattr(folded.model.params, name, value)
+        results[value] = folded.top1()
+        print(f"  {name} {value:<5} top-1 {100 * results[value]:.1f}% ({folded.total} pairs, 2 folds)")
+    best = max(results, key=results.get)
+    setattr(folded.model.params, name, best)
+    return best
 
 
 def split_sentences(paragraph: str) -> list[str]:
@@ -152,9 +169,11 @@ def main() -> None:
     model = load(args.model)
     pairs = train_pairs()
     if args.only in (None, "channel"):
+        folded = FoldedPairs(model, pairs)
         print("error-model weight (2-fold cross-validation on train pairs):")
-        model.params.channel_weight = tune_channel_weight(model, pairs)
-        print(f"-> channel_weight = {model.params.channel_weight}")
+        print(f"-> channel_weight = {tune_on_pairs(folded, 'channel_weight', (1.0, 1.25, 1.5, 1.75, 2.0, 2.5))}")
+        print("shared-sound log factor (same cross-validation):")
+        print(f"-> sound_log_bonus = {tune_on_pairs(folded, 'sound_log_bonus', (0.0, 1.0, 2.0, 3.0, 4.0))}")
     sentences = dev_sentences(args.dev, args.sentences)
     if args.only in (None, "realword"):
         print("real-word constants (dev-heldout sentences):")

@@ -38,7 +38,7 @@ PREFIX_LOG_RATE = math.log(0.001)
 FAR_SEARCH_BELOW = 3
 FAR_KEPT = 8  # the most frequent of those distance-3 keys are kept
 # Candidates re-scored with multi-character rules when checking a document.
-RULE_RESCORED = 4
+RULE_RESCORED = 3
 NAME_LOG_PENALTY = math.log(0.1)
 # Share of a noun's uses that are possessive (our estimate, not fitted).
 POSSESSIVE_LOG_SHARE = math.log(0.01)
@@ -121,6 +121,8 @@ class Checker:
         self.log_alpha_conf = math.log(p.alpha_confusable)
         self.log_error_conf = math.log(1.0 - p.alpha_confusable)
         self._q_cache: dict[tuple[int, int], float] = {}
+        # Per listed word: its usable real-word neighbours with log P(error) + log Q.
+        self._realword_options: dict[int, list[tuple[int, float]]] = {}
         self._channel_cache: _LRU = _LRU(20000)
         self._novel_cache: _LRU = _LRU(20000)
 
@@ -217,13 +219,16 @@ class Checker:
             log_alpha, log_error = self.log_alpha, self.log_error
         h0 = self._h0_known(kid, left, right, log_alpha) + math.log1p(4.0 * self._ignored(word))
         boosts = self._correction_boosts(word)
-        hyps = []
-        for c in nbrs:
-            if not lexicon.flags[c] & LOWER or not lexicon.is_variant(c, self.variant):
-                continue
-            h = log_error + self._q(kid, c) + self._lp(c, left) + self._lp(right, c)
-            h += boosts.get(lexicon.keys[c], 0.0)
-            hyps.append((c, h))
+        options = self._realword_options.get(kid)
+        if options is None:
+            options = self._realword_options[kid] = [
+                (c, log_error + self._q(kid, c)) for c in nbrs
+                if lexicon.flags[c] & LOWER and lexicon.is_variant(c, self.variant)]
+        lp = self._lp
+        hyps = [(c, base + lp(c, left) + lp(right, c)) for c, base in options]
+        if boosts:
+            keys = lexicon.keys
+            hyps = [(c, h + boosts.get(keys[c], 0.0)) for c, h in hyps]
         if not hyps:
             return None
         total = _logsumexp([h0] + [h for _, h in hyps])
@@ -353,7 +358,8 @@ class Checker:
         lexicon, channel, prior = model.lexicon, model.channel, model.lm.prior
         found = model.candidates.within(w, 2)
         found.pop(lexicon.ids.get(w, -1), None)
-        for c in model.sound_index.get(sound_key(w), ()):
+        same_sound = set(model.sound_index.get(sound_key(w), ()))
+        for c in same_sound:
             if c not in found and abs(len(lexicon.keys[c]) - len(w)) <= 3:
                 found[c] = 3
         if sum(1 for d in found.values() if d <= 2) < FAR_SEARCH_BELOW:
@@ -381,6 +387,15 @@ class Checker:
             top = sorted(wanted, key=lambda c: -(scored[c] + math.log(prior[c])))[:RULE_RESCORED]
             for c in top:
                 scored[c] = channel.log_q(w, keys[c])
+        # Spelled by ear: letters and sound are two views of one slip (after
+        # Toutanova & Moore 2002); a shared sound key adds a tuned log factor.
+        # Missing spaces and apostrophes are other slips with rates of their
+        # own: the factor is for candidates of the letter channel only.
+        # The sound index holds the 80,000 most frequent keys, enough for fixes.
+        bonus = model.params.sound_log_bonus
+        if bonus:
+            for c in same_sound.intersection(scored):
+                scored[c] += bonus
         out = [(c, scored[c] + (0.0 if flags[c] & LOWER else NAME_LOG_PENALTY)) for c in wanted]
         return self._channel_cache.put(key, out)
 

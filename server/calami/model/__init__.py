@@ -36,6 +36,9 @@ class Params:
     oov_log_prior: float = -2.0  # added to the novel-word model's log P(spelling)
     max_nonword_candidates: int = 60
     channel_weight: float = 1.0  # exponent on the error model against the language model
+    # log factor for a non-word candidate that sounds like the typed word (same
+    # sound key): pronunciation as a second error channel beside the letters.
+    sound_log_bonus: float = 0.0
 
     def to_dict(self) -> dict[str, Any]:
         return dict(self.__dict__)

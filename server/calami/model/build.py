@@ -6,7 +6,8 @@ Steps (each reported with its counts in the model header):
    admit frequent corpus words that are not near-misses of listed words;
 3. unigram prior = blend of general word frequencies and corpus counts;
 4. bigram Kneser-Ney language model over the lexicon's keys;
-5. error model from aligned misspelling pairs (train split only);
+5. error model from aligned misspelling pairs (train split only): single-letter
+   edits in context and multi-character rules;
 6. indexes: deletion neighbourhood, real-word neighbours, sound keys.
 
 Inputs are plain files so the build is reproducible from named sources
@@ -248,7 +249,8 @@ def build(cfg: BuildConfig) -> tuple[Model, dict]:
 
     channel = error_model_trainer(keys, prior)(cfg.pairs)
     by_prior = sorted(range(len(keys)), key=lambda k: -prior[k])
-    log(f"error model: {len(cfg.pairs)} pairs; P(k edits) = {[round(x, 3) for x in channel.edits_k]}")
+    log(f"error model: {len(cfg.pairs)} pairs; P(k edits) = {[round(x, 3) for x in channel.edits_k]}; "
+        f"{len(channel.rules)} multi-character rules")
 
     candidates = CandidateIndex.build(keys)
     log(f"candidate index: {candidates.stats()}")
@@ -274,7 +276,7 @@ def build(cfg: BuildConfig) -> tuple[Model, dict]:
             "cased_forms": len(cased_forms), "corpus_tokens": corpus.tokens, "corpus_sentences": len(corpus.sentences),
             "bigram_types": len(counter.bigrams), "bigrams_stored": len(lm.col), "pairs": len(cfg.pairs),
             "candidate_entries": candidates.stats()["entries"], "realword_links": len(neighbours),
-            "sound_keys": len(sound_index),
+            "sound_keys": len(sound_index), "error_rules": len(channel.rules),
         },
         "settings": {
             "scowl_max_size": cfg.scowl_max_size, "lm_min_count": cfg.lm_min_count, "lm_lam": cfg.lm_lam,

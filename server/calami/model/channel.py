@@ -33,7 +33,7 @@ from typing import Iterable, Sequence
 from calami.model.alignment import START, align
 from calami.model.rules import BEGIN, END, MAX_SIDE, RuleTable
 
-MARGIN = 2  # matched characters kept around the differing middle, for rule context
+MARGIN = 1  # matched characters kept around the differing middle, for rule context
 BOUNDS = (BEGIN, END)
 
 LETTERS = "abcdefghijklmnopqrstuvwxyz'"
@@ -194,6 +194,7 @@ class ChannelModel:
         # Every edit costs -log(rate) + (log_z + more); rates are cached per model.
         step = log_z + more
         nlr = self._neg_log_rate
+        cache = self._cost_cache
         # Edits that change the first letter are rarer than elsewhere.
         first_penalty = -math.log(self.first_factor)
         n, m = len(t), len(c)
@@ -239,13 +240,17 @@ class ChannelModel:
                     if ti == cj:
                         best = up[j - 1]
                     elif ti not in BOUNDS and cj not in BOUNDS:
-                        best = up[j - 1] + nlr("s", ti, cj) + step + at_first
+                        v = cache.get(("s", ti, cj))
+                        best = up[j - 1] + (nlr("s", ti, cj) if v is None else v) + step + at_first
                 if j > 0 and cj not in BOUNDS:
-                    x = row[j - 1] + nlr("d", c[j - 2] if j > 1 else START, cj) + step + at_first
+                    ctx = c[j - 2] if j > 1 else START
+                    v = cache.get(("d", ctx, cj))
+                    x = row[j - 1] + (nlr("d", ctx, cj) if v is None else v) + step + at_first
                     if x < best:
                         best = x
                 if ins_ok:
-                    x = up[j] + nlr("i", prev_t, ti) + step + (first_penalty if j == first else 0.0)
+                    v = cache.get(("i", prev_t, ti))
+                    x = up[j] + (nlr("i", prev_t, ti) if v is None else v) + step + (first_penalty if j == first else 0.0)
                     if x < best:
                         best = x
                 if (i > 1 and j > 1 and ti == c[j - 2] and prev_t == cj and ti != cj
