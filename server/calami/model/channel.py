@@ -33,7 +33,10 @@ from typing import Iterable, Sequence
 from calami.model.alignment import START, align
 from calami.model.rules import BEGIN, END, MAX_SIDE, RuleTable
 
-MARGIN = 1  # matched characters kept around the differing middle, for rule context
+# Matched characters kept around the differing middle, for rule context.  Rules
+# reaching two letters into the matched part are then not used: on the train
+# pairs (2-fold CV) top-1 stays within 0.2 points of MARGIN 2, 30% cheaper.
+MARGIN = 1
 BOUNDS = (BEGIN, END)
 
 LETTERS = "abcdefghijklmnopqrstuvwxyz'"
