@@ -47,12 +47,6 @@ INFLECTIONS = ("s", "es", "ed", "d", "ing", "er", "ers")
 # English plurals not formed with -s take no further ending ("childrens" is
 # a possessive missing its apostrophe, not a new word); common knowledge.
 IRREGULAR_PLURALS = frozenset("children women men people feet teeth mice geese oxen brethren".split())
-
-
-def _irregular_plural(word: str) -> bool:
-    return word in IRREGULAR_PLURALS or word.endswith(("children", "women"))
-
-
 PREFIXES = ("re", "un", "pre", "de", "non", "sub", "multi", "auto", "inter", "over", "under", "co")
 # Words of one or two letters that a run-together pair may contain ("alot" ->
 # "a lot", "inthe" -> "in the"); other short keys ("ed", "th") are abbreviations.
@@ -75,6 +69,10 @@ class Adaptation(Protocol):
 def _logsumexp(values: Sequence[float]) -> float:
     top = max(values)
     return top + math.log(sum(math.exp(v - top) for v in values))
+
+
+def _irregular_plural(word: str) -> bool:
+    return word in IRREGULAR_PLURALS or word.endswith(("children", "women"))
 
 
 class _LRU(OrderedDict):
@@ -339,6 +337,7 @@ class Checker:
         if len(w) < 4 or not w.endswith("s") or w.endswith("'s"):
             return []
         out = []
+        # "childrens" -> "children's"; "dogss" -> "dog's" (the apostrophe typed as "s").
         for stem in (w[:-1], w[:-2] if w.endswith("ss") else None):
             kid = lexicon.ids.get(stem) if stem else None
             if kid is None or not lexicon.flags[kid] & LOWER or stem.endswith("s"):

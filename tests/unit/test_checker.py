@@ -7,11 +7,12 @@ adaptation), not accuracy, which the reference tests measure on real data.
 from __future__ import annotations
 
 import dataclasses
+import math
 from collections import Counter
 
 import pytest
 
-from calami.checker import Checker
+from calami.checker import CONFUSABLE_Q, Checker
 from calami.findings import NONWORD, REALWORD, Thresholds
 
 
@@ -219,3 +220,37 @@ def test_a_shared_sound_raises_exactly_the_candidates_that_sound_alike(model):
     assert model.lexicon.ids["physical"] in alike
     for c in plain:
         assert sounded[c] == pytest.approx(plain[c] + (2.0 if c in alike else 0.0))
+
+
+def test_real_word_slips_are_scored_by_single_letter_edits(checker, model):
+    # Rules learned from non-word misspellings (a dropped initial "t") must not
+    # make real-word slips such as "ask" for "task" look likely.
+    ids = model.lexicon.ids
+    typed, intended = ids["ask"], ids["task"]
+    assert intended in model.realword_neighbours(typed)
+    plain = model.channel.log_q("ask", "task", rules=False)
+    assert model.channel.log_q("ask", "task") > plain + 1.0  # the rule table does apply here
+    expected = max(plain, math.log(CONFUSABLE_Q)) if (typed, intended) in checker._confusable else plain
+    assert checker._q(typed, intended) == pytest.approx(checker.channel_weight * expected)
+
+
+def test_document_check_rescores_only_the_likeliest_candidates_with_rules(model):
+    from calami.checker import NAME_LOG_PENALTY, RULE_RESCORED
+    from calami.model.lexicon import LOWER
+
+    checker = Checker(_with_params(model, sound_log_bonus=0.0))
+    keys, flags, prior = model.lexicon.keys, model.lexicon.flags, model.lm.prior
+    scored = dict(checker._channel_candidates("fisical", every_candidate=False))
+    assert len(scored) > RULE_RESCORED
+
+    def name(c):
+        return 0.0 if flags[c] & LOWER else NAME_LOG_PENALTY
+
+    plain = {c: model.channel.log_q("fisical", keys[c], rules=False) for c in scored}
+    top = sorted(scored, key=lambda c: -(plain[c] + math.log(prior[c])))[:RULE_RESCORED]
+    for c in scored:
+        want = model.channel.log_q("fisical", keys[c]) if c in top else plain[c]
+        assert scored[c] == pytest.approx(want + name(c))
+    everything = dict(checker._channel_candidates("fisical", every_candidate=True))
+    for c in everything:
+        assert everything[c] == pytest.approx(model.channel.log_q("fisical", keys[c]) + name(c))

@@ -27,8 +27,8 @@ from typing import Sequence
 from calami.model.distance import osa_distance, pattern_masks
 
 MAX_DISTANCE = 2
-MAX_QUERY_LENGTH = 40
-FAR_MIN_LENGTH = 6  # longer "words" are not looked up (minified data, hashes)
+MAX_QUERY_LENGTH = 40  # longer "words" are not looked up (minified data, hashes)
+FAR_MIN_LENGTH = 6  # shorter words get no distance-3 search (see at_three)
 
 
 def deletion_neighbourhood(word: str, depth: int = MAX_DISTANCE) -> set[str]:

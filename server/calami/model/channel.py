@@ -92,14 +92,18 @@ class ChannelModel:
         # Each edit after the first costs the ratio of successive P(k).
         self._log_more = math.log(max(k[1], 1e-6) / k[0])
         self._cost_cache: dict[tuple[str, str, str], float] = {}
+        self._rate_of = {"s": self.sub_rate, "d": self.del_rate, "i": self.ins_rate, "t": self.trans_rate}
 
     def _neg_log_rate(self, kind: str, x: str, y: str) -> float:
-        """-log rate of one single-letter edit ("s"ub t,c / "d"el / "i"ns / "t"rans x,y), cached."""
+        """-log rate of one single-letter edit ("s"ub t,c / "d"el / "i"ns / "t"rans x,y), cached.
+
+        The weighted alignment reads the cache itself on its hot path and
+        calls this on a miss.
+        """
         key = (kind, x, y)
         v = self._cost_cache.get(key)
         if v is None:
-            rate = {"s": self.sub_rate, "d": self.del_rate, "i": self.ins_rate, "t": self.trans_rate}[kind](x, y)
-            v = self._cost_cache[key] = -math.log(rate)
+            v = self._cost_cache[key] = -math.log(self._rate_of[kind](x, y))
         return v
 
     # -- rates (smoothed) ---------------------------------------------------
@@ -258,7 +262,8 @@ class ChannelModel:
                         best = x
                 if (i > 1 and j > 1 and ti == c[j - 2] and prev_t == cj and ti != cj
                         and ti not in BOUNDS and cj not in BOUNDS):
-                    x = d[i - 2][j - 2] + nlr("t", c[j - 2], cj) + step + (first_penalty if j - 2 == first else 0.0)
+                    v = cache.get(("t", ti, cj))
+                    x = d[i - 2][j - 2] + (nlr("t", ti, cj) if v is None else v) + step + (first_penalty if j - 2 == first else 0.0)
                     if x < best:
                         best = x
                 if jumps:
