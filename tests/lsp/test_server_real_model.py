@@ -10,7 +10,7 @@ import pytest
 from lsprotocol import types
 
 from calami.model import default_model_path
-from session import REAL_SERVER, open_doc, published_for, start, stop, until
+from session import REAL_SERVER, capabilities, open_doc, published_for, start, stop, until
 
 HAVE_MODEL = default_model_path().exists()
 
@@ -89,5 +89,41 @@ async def test_shipped_model_end_to_end(tmp_path):
         actions = await client.text_document_code_action_async(
             types.CodeActionParams(types.TextDocumentIdentifier(uri), diag.range, types.CodeActionContext([diag])))
         assert actions[0].title == "Replace with 'receive'" and actions[0].is_preferred
+    finally:
+        await stop(client)
+
+
+@pytest.mark.skipif(not HAVE_MODEL, reason="shipped model not built yet")
+async def test_a_word_the_workspace_code_uses_is_not_flagged_in_its_docs(tmp_path):
+    """The workspace vocabulary end to end: learnt from the folder's code, updated on a watched change."""
+    uses, plain = tmp_path / "uses", tmp_path / "plain"
+    for root in (uses, plain):
+        (root / "src").mkdir(parents=True)
+        (root / ".git").mkdir()
+    (uses / "src" / "tls.py").write_text("import certifi\n\nBUNDLE = certifi.where()\n")
+    doc_text = "Upgrade certifi before you recieve the next release.\n"
+    client, _ = await start(tmp_path / "profile", [uses, plain], command=REAL_SERVER, options={"debounceMs": 0},
+                            caps=capabilities(watch=True))
+    try:
+        uri_uses = open_doc(client, uses / "README.md", doc_text)
+        uri_plain = open_doc(client, plain / "README.md", doc_text)
+
+        def words(uri):
+            params = published_for(client, uri, 1)
+            return None if params is None else {d.data["word"] for d in params.diagnostics}
+
+        await until(lambda: words(uri_plain) is not None and words(uri_uses) is not None and
+                    "certifi" not in words(uri_uses), timeout=60)
+        assert words(uri_uses) == {"recieve"}  # a typo stays flagged beside the project's own word
+        assert words(uri_plain) == {"certifi", "recieve"}
+
+        # The other folder starts using the word in its code: a watched change teaches it.
+        code = plain / "src" / "tls.py"
+        code.write_text("import certifi\n\nprint(certifi.where())\n")
+        before = len(client.published)
+        client.workspace_did_change_watched_files(types.DidChangeWatchedFilesParams(
+            changes=[types.FileEvent(uri=code.as_uri(), type=types.FileChangeType.Created)]))
+        await until(lambda: any(p.uri == uri_plain and "certifi" not in {d.data["word"] for d in p.diagnostics}
+                                for p in client.published[before:]), timeout=60)
     finally:
         await stop(client)

@@ -124,6 +124,44 @@ def test_cached_findings_equal_a_full_check_with_the_real_checker(initial, steps
         assert cached == full_check(doc.text, kind, checker)
 
 
+_WITH_VOCABULARY: list = []
+
+
+def _checker_with_vocabulary():
+    """The real checker, with a workspace that uses some of the pieces' non-words."""
+    if not _WITH_VOCABULARY:
+        from calami.checker import Checker
+        from calami.vocab.usage import WorkspaceVocabulary
+
+        base = _real_checker()
+        vocabulary = WorkspaceVocabulary(lambda key: key in base.model.lexicon.ids)
+        vocabulary.add_text("a.py", "def ofen(wrold): return wrold\n", "python")
+        vocabulary.add_text("b.md", "See [ofen](https://example.org/ofen) and teh wrold.", "markdown")
+        _WITH_VOCABULARY.append(Checker(base.model, usage=vocabulary))
+    return _WITH_VOCABULARY[0]
+
+
+@settings(max_examples=40, deadline=None)
+@given(initial=piece_text, steps=st.lists(edits(), min_size=1, max_size=8), kind=st.sampled_from(["markdown", "plain"]))
+def test_cached_findings_equal_a_full_check_with_a_workspace_vocabulary(initial, steps, kind):
+    checker = _checker_with_vocabulary()
+    doc = Document("file:///t.md", kind, 1, initial, UTF16, kind)
+    for n, (a, b, new) in enumerate(steps, start=2):
+        positions = PositionMap(doc.text, UTF16)
+        rng = types.Range(positions.position(int(a * len(doc.text))), positions.position(int(b * len(doc.text))))
+        doc.apply([types.TextDocumentContentChangePartial(range=rng, text=new)], n)
+        cached = doc.cache.findings(doc.text, prose_spans(doc.text, kind), checker)
+        assert cached == full_check(doc.text, kind, checker)
+
+
+def test_the_vocabulary_changes_what_the_real_checker_flags():
+    """The property above is not vacuous: the workspace's words are flagged without it."""
+    text = "We came far away. The ofen wrold came."
+    plain = {f.word for f in full_check(text, "plain", _real_checker())}
+    learnt = {f.word for f in full_check(text, "plain", _checker_with_vocabulary())}
+    assert {"ofen", "wrold"} <= plain and not {"ofen", "wrold"} & learnt
+
+
 @settings(max_examples=150, deadline=None)
 @given(
     initial=piece_text,

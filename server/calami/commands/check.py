@@ -37,6 +37,10 @@ def register(subparsers: "argparse._SubParsersAction[argparse.ArgumentParser]") 
     parser.add_argument("--color", choices=("auto", "always", "never"), default="auto", help="colour in the text report")
     parser.add_argument("--model", metavar="FILE", help="model file (default: the one shipped with calami)")
     parser.add_argument("--max-bytes", type=int, metavar="N", help="skip files larger than N bytes (default: 2 MiB)")
+    parser.add_argument("--explain", action="store_true",
+                        help="after each file, say why words were flagged and which the workspace's own use accepted")
+    parser.add_argument("--no-workspace", dest="workspace", action="store_false",
+                        help="do not learn the checked tree's own vocabulary (every unknown word judged alone)")
     parser.set_defaults(run=run)
 
 
@@ -122,10 +126,12 @@ def _first_line(path: Path) -> str:
 class Worker:
     """Checks tasks with one model; builds one checker per project (cached)."""
 
-    def __init__(self, make_checker: Callable[[Any, str | None], Any], variant: str | None, max_bytes: int | None) -> None:
+    def __init__(self, make_checker: Callable[[Any, str | None], Any], variant: str | None, max_bytes: int | None,
+                 explain: bool = False) -> None:
         self.make_checker = make_checker
         self.variant = variant
         self.max_bytes = max_bytes
+        self.explain = explain
         self.projects: dict[str, Any] = {}
         self.checkers: dict[str, Any] = {}
 
@@ -138,7 +144,10 @@ class Worker:
 
     def checker(self, root: str):
         if root not in self.checkers:
-            self.checkers[root] = self.make_checker(self.project(root), self.variant)
+            checker = self.make_checker(self.project(root), self.variant)
+            if hasattr(checker, "usage") and root in _VOCABULARIES:
+                checker.usage = _VOCABULARIES[root]
+            self.checkers[root] = checker
         return self.checkers[root]
 
     def run(self, task: dict[str, Any]) -> dict[str, Any]:
@@ -162,8 +171,22 @@ class Worker:
             text = read
         kind = task["kind"] or detect_kind(task["file"] or "-", text.split("\n", 1)[0]) or "plain"
         project = self.project(task["root"])
-        findings, notes = check_document(text, kind, project, self.checker(task["root"]))
+        checker = self.checker(task["root"])
+        if hasattr(checker, "with_names") and is_credits_file(task["display"]):
+            checker = checker.with_names()
+        events: list[tuple[int, str, str, str]] = []
+        if self.explain and hasattr(checker, "observer"):
+            checker.observer = lambda at, word, rule, detail: events.append((at, word, rule, detail))
+        try:
+            findings, notes = check_document(text, kind, project, checker)
+        finally:
+            if self.explain and hasattr(checker, "observer"):
+                checker.observer = None
         out["notes"] = [f"{task['display']}: {note}" for note in notes]
+        if self.explain:
+            from calami.report.explain import explain_events, explain_findings
+
+            out["explained"] = explain_findings(findings, getattr(checker, "usage", None), text) + explain_events(text, events)
         for item in locate(task["display"], text, findings):
             f = item.finding
             out["findings"].append(
@@ -172,6 +195,15 @@ class Worker:
                  item.context]
             )
         return out
+
+
+_CREDITS = ("authors", "contributors", "credits", "thanks", "maintainers", "people", "acknowledgements", "acknowledgments")
+
+
+def is_credits_file(name: str) -> bool:
+    """AUTHORS, CONTRIBUTORS.md, THANKS.rst...: files that are lists of people."""
+    stem = Path(name).name.lower().split(".", 1)[0]
+    return stem in _CREDITS
 
 
 def check_document(text: str, kind: str, project: Any, checker: Any) -> tuple[list[Any], list[str]]:
@@ -227,6 +259,7 @@ def default_checker_factory(model_path: str | None) -> Callable[[Any, str | None
             max_suggestions=config.max_suggestions,
         )
 
+    make.known_word = lambda key: key in model.lexicon.ids  # type: ignore[attr-defined]
     return make
 
 
@@ -235,11 +268,39 @@ def default_checker_factory(model_path: str | None) -> Callable[[Any, str | None
 CHECKER_FACTORY: Callable[[str | None], Callable[[Any, str | None], Any]] = default_checker_factory
 
 _WORKER: Worker | None = None
+# Project root -> the vocabulary learnt from the checked tree; filled before
+# any worker starts, so forked workers inherit it.
+_VOCABULARIES: dict[str, Any] = {}
 
 
-def _init_worker(model_path: str | None, variant: str | None, max_bytes: int | None) -> None:
+def learn_workspaces(tasks: list[Task], known: Callable[[str], bool] | None, max_bytes: int | None) -> dict[str, Any]:
+    """One vocabulary per project: its manifests and every checked document."""
+    from calami.vocab.usage import WorkspaceVocabulary
+    from calami.vocab.workspace_scan import learn_file, project_manifests
+    from calami.walk import DEFAULT_MAX_BYTES, Skipped, read_document
+
+    out: dict[str, Any] = {}
+    for task in tasks:
+        vocabulary = out.get(task.root)
+        if vocabulary is None:
+            vocabulary = out[task.root] = WorkspaceVocabulary(known)
+            for manifest in project_manifests(Path(task.root)):
+                learn_file(vocabulary, manifest)
+        if task.text is not None:
+            vocabulary.add_text("-", task.text, task.kind)
+            continue
+        try:
+            read = read_document(Path(task.file), max_bytes or DEFAULT_MAX_BYTES)
+        except OSError:
+            continue  # reported when the file is checked
+        if not isinstance(read, Skipped):
+            learn_file(vocabulary, Path(task.file), read)
+    return out
+
+
+def _init_worker(model_path: str | None, variant: str | None, max_bytes: int | None, explain: bool) -> None:
     global _WORKER
-    _WORKER = Worker(CHECKER_FACTORY(model_path), variant, max_bytes)
+    _WORKER = Worker(CHECKER_FACTORY(model_path), variant, max_bytes, explain)
 
 
 def _work(packed: bytes) -> bytes:
@@ -252,8 +313,13 @@ def _work(packed: bytes) -> bytes:
 def _results(tasks: list[Task], args: argparse.Namespace) -> Iterator[dict[str, Any]]:
     """Results in task order, from this process or from a pool."""
     jobs = max(1, min(args.jobs, len(tasks)))
+    factory = CHECKER_FACTORY(args.model)  # loads the model here, so forked workers share it
+    _VOCABULARIES.clear()
+    if getattr(args, "workspace", True):
+        _VOCABULARIES.update(learn_workspaces(tasks, getattr(factory, "known_word", None), args.max_bytes))
+    explain = getattr(args, "explain", False)
     if jobs == 1:
-        worker = Worker(CHECKER_FACTORY(args.model), args.variant, args.max_bytes)
+        worker = Worker(factory, args.variant, args.max_bytes, explain)
         for task in tasks:
             yield worker.run(task.pack())
         return
@@ -265,7 +331,7 @@ def _results(tasks: list[Task], args: argparse.Namespace) -> Iterator[dict[str, 
     context = multiprocessing.get_context(method)
     packed = [msgpack.packb(task.pack()) for task in tasks]
     chunk = max(1, min(16, len(tasks) // (jobs * 8)))
-    with context.Pool(jobs, initializer=_init_worker, initargs=(args.model, args.variant, args.max_bytes)) as pool:
+    with context.Pool(jobs, initializer=_init_worker, initargs=(args.model, args.variant, args.max_bytes, explain)) as pool:
         for result in pool.imap(_work, packed, chunksize=chunk):
             yield msgpack.unpackb(result)
 
@@ -322,6 +388,11 @@ def run(args: argparse.Namespace) -> int:
                 if located:
                     progress.close()
                     text_report.write_document(sys.stdout, located, colour)
+                if result.get("explained"):
+                    progress.close()
+                    from calami.report.explain import write_explained
+
+                    write_explained(sys.stdout, result["display"], result["explained"])
             else:
                 everything.extend(located)
     finally:

@@ -63,6 +63,11 @@ class ModelCheckers:
                 return self.model_for("")
         return self.models[path]
 
+    def known_word_predicate(self):
+        """Lexicon membership for the workspace scan (waits for the model)."""
+        ids = self.model_for("").lexicon.ids
+        return ids.__contains__
+
     def __call__(self, adaptations: Sequence[Any], settings: Any) -> Any:
         from calami.checker import Checker
 

@@ -159,8 +159,10 @@ class Scheduler:
         settings_for: Callable[[Document], Settings],
         publish: Callable[[Document, list[dict[str, Any]]], None],
         project_for: Callable[[Document], Any] = lambda doc: None,
+        ready: Callable[[Document], Any] | None = None,
     ) -> None:
         self.project_for = project_for
+        self.ready = ready  # awaited before a check (the workspace scan's first wait)
         self.checker_for = checker_for
         self.settings_for = settings_for
         self.publish = publish
@@ -218,6 +220,8 @@ class Scheduler:
             log.exception("calami: checking %s failed", doc.uri)
 
     async def _check(self, doc: Document) -> list[Finding] | None:
+        if self.ready is not None:
+            await self.ready(doc)
         version, text = doc.version, doc.text
         self._warn_once(doc, text)
         checker = self.checker_for(doc)

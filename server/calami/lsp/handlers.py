@@ -7,6 +7,7 @@ escape for a notification: the server logs it and keeps serving.
 
 from __future__ import annotations
 
+import asyncio
 import inspect
 import logging
 from pathlib import Path
@@ -24,6 +25,9 @@ from calami.lsp.positions import choose_encoding
 from calami.lsp.server import WATCHED, CalamiServer, _folders, _config_supported
 
 log = logging.getLogger("calami.lsp")
+
+# Files whose words feed the workspace vocabulary when they change on disk.
+VOCABULARY_GLOB = "**/*.{md,markdown,rst,txt,tex,html,py,pyi,js,jsx,ts,tsx,rs,go,c,h,cc,cpp,hpp,java,sh,yaml,yml,toml,json,cfg}"
 
 # Errors a command turns into an InvalidParams response (the server goes on).
 REFUSED = (ArgumentError, PermissionError, CalamiError, ValueError, OSError)
@@ -49,9 +53,11 @@ def lifecycle(server: CalamiServer) -> None:
     async def initialized(ls: CalamiServer, params: types.InitializedParams) -> None:
         if ls.warm_up is not None:
             ls.warm_up()
+        ls.learn_vocabulary(asyncio.get_running_loop())
         caps = ls.client_capabilities
         if caps.workspace and caps.workspace.did_change_watched_files and caps.workspace.did_change_watched_files.dynamic_registration:
             watchers = [types.FileSystemWatcher(glob_pattern=f"**/{name}") for name in WATCHED]
+            watchers.append(types.FileSystemWatcher(glob_pattern=VOCABULARY_GLOB))
             settings_list = ls.settings.word_list
             if settings_list not in WATCHED:
                 watchers.append(types.FileSystemWatcher(glob_pattern=f"**/{settings_list}"))
@@ -78,7 +84,12 @@ def lifecycle(server: CalamiServer) -> None:
 
     @server.feature(types.WORKSPACE_DID_CHANGE_WATCHED_FILES)
     def did_change_watched_files(ls: CalamiServer, params: types.DidChangeWatchedFilesParams) -> None:
-        changed = [uri_to_path(c.uri) for c in params.changes]
+        every = [uri_to_path(c.uri) for c in params.changes]
+        settings_names = set(WATCHED) | {ls.settings.word_list}
+        changed = [p for p in every if p is None or p.name in settings_names or p.name == ls.profile.path.name]
+        ls.relearn([p for p in every if p is not None and p not in changed])
+        if not changed:
+            return
         for path in changed:
             ls.projects.reload(path)
         if any(p is not None and p.name == ls.profile.path.name and p.parent == ls.profile.directory for p in changed):
@@ -98,6 +109,7 @@ def lifecycle(server: CalamiServer) -> None:
             if path is not None:
                 folders.add(path)
         ls.projects.set_folders(sorted(folders))
+        ls.projects.scans.start(ls.projects.folders)
         ls.recheck_all()
 
 
@@ -123,6 +135,10 @@ def documents(server: CalamiServer) -> None:
             log.warning("calami: refused a change to %s (%s); keeping version %d", uri, exc, doc.version)
             return
         ls.scheduler.schedule(doc)
+
+    @server.feature(types.TEXT_DOCUMENT_DID_SAVE)
+    def did_save(ls: CalamiServer, params: types.DidSaveTextDocumentParams) -> None:
+        ls.relearn([uri_to_path(params.text_document.uri)])
 
     @server.feature(types.TEXT_DOCUMENT_DID_CLOSE)
     def did_close(ls: CalamiServer, params: types.DidCloseTextDocumentParams) -> None:

@@ -70,7 +70,8 @@ class CalamiServer(LanguageServer):
         self.projects = Projects(make_checker, [profile])
         self.projects.report = self.show
         self.scheduler = Scheduler(
-            self._checker_for, self.settings_for, self._publish, lambda doc: self.projects.project_for(doc.path)
+            self._checker_for, self.settings_for, self._publish, lambda doc: self.projects.project_for(doc.path),
+            ready=lambda doc: self.projects.scans.ready(doc.path),
         )
 
     # -- helpers used by handlers -------------------------------------------
@@ -112,6 +113,29 @@ class CalamiServer(LanguageServer):
             self.scheduler.schedule(doc, delay_ms=0)
         if self.pull_mode and _refresh_supported(self.client_capabilities):
             self.workspace_diagnostic_refresh(None)
+
+    def learn_vocabulary(self, loop: Any) -> None:
+        """Start learning each folder's vocabulary; re-check when a scan is done."""
+        def done(folder: Path) -> None:
+            loop.call_soon_threadsafe(self._vocabulary_changed)
+
+        self.projects.scans.on_done = done
+        self.projects.scans.start(self.projects.folders)
+
+    def _vocabulary_changed(self) -> None:
+        log.info("calami: the workspace vocabulary changed; checking open documents again")
+        self.projects.invalidate()
+        self.recheck_all()
+
+    def relearn(self, paths: list[Path | None]) -> bool:
+        """Learn saved or changed files again; re-check if the vocabulary changed."""
+        changed = False
+        for path in paths:
+            if path is not None:
+                changed |= self.projects.scans.learn(path)
+        if changed:
+            self._vocabulary_changed()
+        return changed
 
     def apply_settings(self, raw: Any, folder: Path | None = None) -> None:
         base = self.settings if folder is not None else Settings()

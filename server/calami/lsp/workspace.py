@@ -43,11 +43,15 @@ class Projects:
     """Projects by root, the folder list, and one checker per (project, settings)."""
 
     def __init__(self, make_checker: CheckerFactory, user_adaptations: Sequence[Any] = ()) -> None:
+        from calami.lsp.vocabulary import WorkspaceScans
+
         self.make_checker = make_checker
+        # Each folder's own vocabulary (a cache model), learnt in the background.
+        self.scans = WorkspaceScans(getattr(make_checker, "known_word_predicate", lambda: None))
         self.user_adaptations = list(user_adaptations)
         self.folders: list[Path] = []
         self._projects: dict[Path, Any] = {}
-        self._checkers: dict[tuple[Path | None, Settings], Any] = {}
+        self._checkers: dict[tuple[Path | None, Path | None, Settings], Any] = {}
         self.generation = 0  # bumped whenever words/config change: caches must go
         self.report: Callable[[str], None] = lambda message: log.warning("calami: %s", message)
         self._broken: set[Path] = set()  # roots whose config failed to parse, until reload
@@ -115,7 +119,7 @@ class Projects:
         project = self.project_for(path)
         effective = self.effective_settings(path, settings)
         root = Path(project.root) if project is not None else None
-        key = (root, effective)
+        key = (root, self.folder_of(path), effective)
         checker = self._checkers.get(key)
         if checker is None:
             adaptations = list(self.user_adaptations)
@@ -125,6 +129,8 @@ class Projects:
                 if extra is not None:
                     adaptations.insert(1, _read_words(extra))
             checker = self.make_checker(adaptations, effective)
+            if hasattr(checker, "usage"):
+                checker.usage = self.scans.vocabulary_for(path)
             self._checkers[key] = checker
         return checker
 
