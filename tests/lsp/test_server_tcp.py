@@ -62,7 +62,9 @@ def test_tcp_server_answers_initialize_on_loopback(tmp_path):
         # Bound to loopback only: the listening socket is not reachable on other addresses.
         listening = subprocess.run(["ss", "-ltnH", f"sport = :{port}"], capture_output=True, text=True)
         if listening.returncode == 0 and listening.stdout.strip():
-            assert "127.0.0.1:" in listening.stdout and "0.0.0.0:" not in listening.stdout
+            # Columns: state, recv-q, send-q, local address:port, peer address:port.
+            local = [line.split()[3] for line in listening.stdout.splitlines() if line.strip()]
+            assert local and all(address.startswith("127.0.0.1:") for address in local), local
     finally:
         proc.kill()
         proc.wait()
