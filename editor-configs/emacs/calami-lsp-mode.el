@@ -65,7 +65,7 @@ not on `exec-path'."
   "A model file to use instead of the shipped one; empty for the shipped model."
   :type 'string)
 
-(defcustom lsp-calami-word-list "calami-words.txt"
+(defcustom lsp-calami-word-list "calami-lexicon.txt"
   "The project word list, relative to the project root."
   :type 'string)
 

@@ -6,7 +6,7 @@ Only when run explicitly, this downloads (``pip download --no-deps
 --no-binary :all:``) the source distributions of the packages in PACKAGES
 into build/false-alarm-sdists/ (kept as a cache), reads every ``.md`` and
 ``.rst`` file they ship (tests and fixtures excepted), runs the checker on
-their prose with default settings and no project words, and prints:
+their prose with default settings and no project lexicon, and prints:
 
 * per package and overall: documents, prose words, findings, findings per
   1,000 prose words; also the rate without change logs (release notes are

@@ -13,7 +13,7 @@ def _project(root, toml=None, words=None):
     if toml is not None:
         (root / "calami.toml").write_text(toml)
     if words is not None:
-        (root / "calami-words.txt").write_text(words)
+        (root / "calami-lexicon.txt").write_text(words)
     return root
 
 
@@ -70,12 +70,13 @@ async def test_watched_word_list_change_reloads_words(tmp_path):
     try:
         await until(lambda: client.registrations)
         globs = [w["globPattern"] for w in client.registrations[0].register_options["watchers"]]
-        assert "**/calami-words.txt" in globs and "**/calami.toml" in globs
+        assert "**/calami-lexicon.txt" in globs and "**/calami.toml" in globs
+        assert "**/calami-words.txt" in globs  # the old name is still read, so watched
         uri = open_doc(client, root / "a.md", "teh wrold\n")
         await until(lambda: published_for(client, uri, 1))
-        (root / "calami-words.txt").write_text("# team words\nwrold\n")  # a teammate's git pull
+        (root / "calami-lexicon.txt").write_text("# team words\nwrold\n")  # a teammate's git pull
         client.workspace_did_change_watched_files(types.DidChangeWatchedFilesParams(
-            [types.FileEvent((root / "calami-words.txt").as_uri(), types.FileChangeType.Changed)]))
+            [types.FileEvent((root / "calami-lexicon.txt").as_uri(), types.FileChangeType.Changed)]))
         await until(lambda: [d.data["word"] for d in client.diagnostics[uri]] == ["teh"])
     finally:
         await stop(client)

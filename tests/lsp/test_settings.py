@@ -12,7 +12,7 @@ def test_defaults_match_the_documented_values():
     s = Settings()
     assert (s.variant, s.hint_threshold, s.confident_threshold, s.max_suggestions) == ("any", 0.5, 0.95, 5)
     assert (s.severity_nonword, s.severity_realword, s.check_strings, s.debounce_ms) == ("information", "hint", False, 150)
-    assert (s.model_path, s.word_list) == ("", "calami-words.txt")
+    assert (s.model_path, s.word_list) == ("", "calami-lexicon.txt")
 
 
 def test_dotted_nested_and_whole_tree_forms_mean_the_same():

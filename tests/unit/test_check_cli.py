@@ -157,7 +157,7 @@ def test_folder_walk_honours_gitignore_and_config_globs(project, capsys, monkeyp
 
 
 def test_project_words_and_thresholds_reach_the_checker(project, capsys, monkeypatch):
-    write(project / "calami-words.txt", "# jargon\nwrold\n")
+    write(project / "calami-lexicon.txt", "# jargon\nwrold\n")
     write(project / "calami.toml", "[thresholds]\nhint = 0.6\nconfident = 0.9\n")
     write(project / "a.txt", "Wrold and teh.\n")
     code, out, _ = run(["--format", "json", "--variant", "en-GB", "a.txt"], capsys, project, monkeypatch)
@@ -181,23 +181,23 @@ def test_toml_syntax_error_exits_2_naming_file_and_line(project, capsys, monkeyp
     assert f"{project / 'calami.toml'}:5: invalid TOML" in err
 
 
-def test_ignore_patterns_cut_text_out(project, capsys, monkeypatch):
-    write(project / "calami.toml", "ignore-patterns = ['TODO\\(teh\\)', '^>.*$']\n")
+def test_skip_patterns_cut_text_out(project, capsys, monkeypatch):
+    write(project / "calami.toml", "skip-patterns = ['TODO\\(teh\\)', '^>.*$']\n")
     write(project / "a.txt", "TODO(teh) fine\n> quoted teh\nreal teh\n")
     code, out, _ = run(["--format", "json", "a.txt"], capsys, project, monkeypatch)
     assert [(i["line"], i["word"]) for i in json.loads(out)] == [(3, "teh")]
 
 
-def test_catastrophic_ignore_pattern_is_reported_and_checking_goes_on(project, capsys, monkeypatch):
+def test_catastrophic_skip_pattern_is_reported_and_checking_goes_on(project, capsys, monkeypatch):
     # (a|aa)+$ backtracks exponentially on a long run of a's followed by another letter.
-    write(project / "calami.toml", "ignore-patterns = [\n  'teh',\n  '(a|aa)+$',\n]\n")
+    write(project / "calami.toml", "skip-patterns = [\n  'teh',\n  '(a|aa)+$',\n]\n")
     write(project / "a.txt", "a" * 60 + "! wrold\n")
     monkeypatch.setattr("calami.vocab.ignore.DEFAULT_TIMEOUT", 0.2)
     monkeypatch.setattr("calami.vocab.project.DEFAULT_TIMEOUT", 0.2)
     code, out, err = run(["--format", "json", "a.txt"], capsys, project, monkeypatch)
     assert code == 1
     assert [i["word"] for i in json.loads(out)] == ["wrold"]
-    assert f"{project / 'calami.toml'}:3: ignore pattern '(a|aa)+$' took longer than" in err
+    assert f"{project / 'calami.toml'}:3: skip pattern '(a|aa)+$' took longer than" in err
 
 
 def test_binary_and_oversized_files_are_skipped_with_a_note(project, capsys, monkeypatch):

@@ -76,7 +76,7 @@ def test_demo_reports_exactly_the_planted_mistakes(real_check):
 @needs_model
 def test_code_is_not_checked_and_project_words_are_accepted(real_check, tmp_path):
     (tmp_path / ".git").mkdir()
-    (tmp_path / "calami-words.txt").write_text("zorblatt\n")
+    (tmp_path / "calami-lexicon.txt").write_text("zorblatt\n")
     (tmp_path / "a.md").write_text(
         "# Notes\n\nThe zorblatt server will recieve the request.\n\n```\nrecieve = 1\n```\n\nCall `recieve()` here.\n"
     )

@@ -298,6 +298,10 @@ def run(args: argparse.Namespace) -> int:
     for message in work.errors:
         print(f"calami: {message}", file=sys.stderr)
         summary.notes.append(message)
+    for project in work.projects.values():
+        for message in project.config.warnings:  # old names that still work
+            print(f"calami: note: {message}", file=sys.stderr)
+            summary.notes.append(message)
     colour = text_report.use_colour(sys.stdout, args.color)
     progress = Progress(len(work.tasks), sys.stderr)
     everything = []
