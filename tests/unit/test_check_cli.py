@@ -16,7 +16,8 @@ import pytest
 
 from calami import cli
 from calami.commands import check as check_command
-from calami.findings import Finding, Suggestion, Thresholds
+from calami.findings import KIND_LABELS, Finding, Suggestion, Thresholds
+from calami.report.text import INDENT, MARK_CLOSE, MARK_OPEN
 from calami.text.tokens import WORD, tokenize
 
 TYPOS = {"wrold": ["world", "wold"], "recieve": ["receive"], "teh": ["the", "ten"]}
@@ -71,33 +72,30 @@ def project(tmp_path):
     return tmp_path
 
 
-def test_text_report_places_the_marker_under_the_word(project, capsys, monkeypatch):
+NONWORD_LABEL = KIND_LABELS["nonword"]
+
+
+def test_text_report_marks_the_word_in_its_line(project, capsys, monkeypatch):
     write(project / "notes.txt", "First line is fine.\nWe will recieve it.\n")
     code, out, err = run(["notes.txt"], capsys, project, monkeypatch)
     assert code == 1
     lines = out.splitlines()
-    assert lines[0] == "notes.txt:2:9: recieve (unknown word, confident fix)"
-    context, marker = lines[1], lines[2]
-    assert context.endswith("We will recieve it.")
-    offset = context.index("We will recieve")
-    assert marker[offset + len("We will "):] == "^" * len("recieve")
-    assert lines[3].strip() == "= suggestions: receive"
-    assert lines[-1] == "1 finding (1 unknown) in 1 file; 1 file checked."
+    assert lines[0] == f"notes.txt:2:9: recieve ({NONWORD_LABEL}, confident fix)"
+    assert lines[1] == f"{INDENT}We will {MARK_OPEN}recieve{MARK_CLOSE} it."
+    assert lines[2] == f"{INDENT}fixes: receive"
+    assert lines[-1].startswith(f"1 finding (1 {NONWORD_LABEL}) in 1 file; 1 file checked")
     assert "\x1b[" not in out  # captured stdout is not a terminal
 
 
-def test_marker_stays_under_the_word_after_tabs_and_wide_characters(project, capsys, monkeypatch):
+def test_marked_word_is_right_after_tabs_and_wide_characters(project, capsys, monkeypatch):
     write(project / "wide.txt", "\t中文 and 🙂 then teh end\n")
     code, out, _ = run(["wide.txt"], capsys, project, monkeypatch)
     lines = out.splitlines()
-    assert lines[0] == "wide.txt:1:16: teh (unknown word, confident fix)"
-    # Tab -> 4 cells, each CJK character and the emoji take 2 cells.
-    context, marker = lines[1], lines[2]
-    bar = context.index("|") + 2
-    shown = context[bar:]
-    assert shown == "    中文 and 🙂 then teh end"
-    cells_before = 4 + 4 + len(" and ") + 2 + len(" then ")
-    assert marker[bar:] == " " * cells_before + "^^^"
+    assert lines[0] == f"wide.txt:1:16: teh ({NONWORD_LABEL}, confident fix)"
+    # Tabs are expanded and the indentation dropped; the mark is inline, so it cannot drift.
+    assert lines[1] == f"{INDENT}中文 and 🙂 then {MARK_OPEN}teh{MARK_CLOSE} end"
+    write(project / "mid.txt", "a\tteh\n")
+    assert run(["mid.txt"], capsys, project, monkeypatch)[1].splitlines()[1] == f"{INDENT}a   {MARK_OPEN}teh{MARK_CLOSE}"
 
 
 def test_clean_file_exits_zero_with_a_summary(project, capsys, monkeypatch):
@@ -208,7 +206,7 @@ def test_binary_and_oversized_files_are_skipped_with_a_note(project, capsys, mon
     assert code == 1
     assert "calami: note: blob.txt: skipped (binary file)" in err
     assert "calami: note: big.txt: skipped (larger than 100 bytes (400 bytes))" in err
-    assert out.splitlines()[-1] == "1 finding (1 unknown) in 1 file; 1 file checked, 2 files skipped."
+    assert out.splitlines()[-1].startswith(f"1 finding (1 {NONWORD_LABEL}) in 1 file; 1 file checked, 2 files skipped")
 
 
 def test_colour_only_when_asked_or_on_a_terminal(project, capsys, monkeypatch):
@@ -246,3 +244,14 @@ def test_folder_walk_detects_kinds_by_shebang_and_skips_unknown_files(project, c
     assert code == 1
     # Only the comment is prose in a shell script; the unknown file is not read.
     assert [(i["path"], i["line"]) for i in json.loads(out)] == [("bin/tool", 2)]
+
+
+def test_old_names_still_work_with_a_note(project, capsys, monkeypatch):
+    write(project / "calami.toml", "ignore-patterns = ['TODO\\(teh\\)']\n")
+    write(project / "calami-words.txt", "wrold\n")
+    write(project / "a.txt", "TODO(teh) wrold and teh\n")
+    code, out, err = run(["--format", "json", "a.txt"], capsys, project, monkeypatch)
+    assert code == 1  # notes, not errors
+    assert [(i["column"], i["word"]) for i in json.loads(out)] == [(21, "teh")]
+    assert "calami: note: " in err and "'ignore-patterns' is the old name of 'skip-patterns'" in err
+    assert "'calami-words.txt' is the old name of the project lexicon" in err
