@@ -93,10 +93,15 @@ def test_use_colour_follows_terminal_and_no_color(monkeypatch):
 @pytest.mark.parametrize(
     "summary, line",
     [
-        (Summary(files_checked=3), "No findings in 3 files checked."),
-        (Summary(files_checked=1, files_skipped=1), "No findings in 1 file checked, 1 file skipped."),
-        (Summary(files_checked=4, files_with_findings=2, nonword=2, realword=1),
-         f"3 findings (2 {KIND_LABELS['nonword']}s, 1 {KIND_LABELS['realword']}) in 2 files; 4 files checked."),
+        (Summary(files_checked=3, words=1234), "No findings in 3 files checked (1,234 words)."),
+        (Summary(files_checked=1, words=1, files_skipped=3, skipped={"binary": 1, "git-ignored": 2}),
+         "No findings in 1 file checked (1 word); 3 skipped (2 git-ignored, 1 binary)."),
+        (Summary(files_checked=4, files_with_findings=2, nonword=2, realword=1, words=1500),
+         f"3 findings (2 {KIND_LABELS['nonword']}s, 1 {KIND_LABELS['realword']}) in 2 files; "
+         "4 files checked (1,500 words), 2.00 findings per 1,000 words."),
+        (Summary(files_skipped=2, skipped={"not a kind calami reads": 2}),
+         "Nothing checked: 2 skipped (2 not a kind calami reads); --verbose names them."),
+        (Summary(), "Nothing checked: no files found."),
     ],
 )
 def test_summary_line(summary, line):

@@ -129,22 +129,30 @@ def _painter(colour: bool):
 
 
 def summary_line(summary: Summary) -> str:
-    """One closing line: what was found, in how many files."""
-    files = _plural(summary.files_checked, "file")
-    skipped = f", {_plural(summary.files_skipped, 'file')} skipped" if summary.files_skipped else ""
+    """One closing line: what was found, in how many files and words, and what was left out."""
+    skipped = ""
+    if summary.files_skipped:
+        reasons = ", ".join(f"{n} {why}" for why, n in sorted(summary.skipped.items(), key=lambda kv: (-kv[1], kv[0])))
+        skipped = f"{summary.files_skipped} skipped ({reasons})" if reasons else f"{summary.files_skipped} skipped"
+    if not summary.files_checked:
+        return f"Nothing checked: {skipped}; --verbose names them." if skipped else "Nothing checked: no files found."
+    checked = f"{_plural(summary.files_checked, 'file')} checked ({_plural(summary.words, 'word', thousands=True)})"
+    tail = f"; {skipped}." if skipped else "."
     if not summary.findings:
-        return f"No findings in {files} checked{skipped}."
+        return f"No findings in {checked}{tail}"
     kinds = []
     if summary.nonword:
         kinds.append(_plural(summary.nonword, KIND_LABELS["nonword"]))
     if summary.realword:
         kinds.append(_plural(summary.realword, KIND_LABELS["realword"]))
     where = _plural(summary.files_with_findings, "file")
-    return f"{_plural(summary.findings, 'finding')} ({', '.join(kinds)}) in {where}; {files} checked{skipped}."
+    rate = f", {1000 * summary.findings / summary.words:.2f} findings per 1,000 words" if summary.words else ""
+    return f"{_plural(summary.findings, 'finding')} ({', '.join(kinds)}) in {where}; {checked}{rate}{tail}"
 
 
-def _plural(count: int, noun: str) -> str:
-    return f"{count} {noun}" if count == 1 else f"{count} {noun}s"
+def _plural(count: int, noun: str, thousands: bool = False) -> str:
+    number = f"{count:,}" if thousands else str(count)
+    return f"{number} {noun}" if count == 1 else f"{number} {noun}s"
 
 
 def write_document(stream: IO[str], located: Sequence[Located], colour: bool) -> None:

@@ -171,21 +171,28 @@ class Project:
         return holes(text, self.skip_patterns, timeout)
 
     def selects(self, path: Path) -> bool:
-        """True if a file found by walking a folder passes include/exclude.
+        """True if a file found by walking a folder passes include/exclude."""
+        return self.left_out(path) is None
+
+    def left_out(self, path: Path) -> str | None:
+        """Why a file found by walking a folder is not checked, or None if it is.
 
         The project's own word lists are data, not prose: never selected.
         """
         resolved = path.resolve()
         lexicons = [*self.word_list_paths, *(self.root / name for name in LEXICON_NAMES)]
         if any(resolved == p.resolve() for p in lexicons):
-            return False
+            return "a word list of the project lexicon"
         try:
             rel = resolved.relative_to(self.root.resolve()).as_posix()
         except ValueError:
-            return True  # outside the project: its globs do not speak about it
+            return None  # outside the project: its globs do not speak about it
+        where = self.config.path.name if self.config.path else "the config"
         if self._include and not _matches_any(self._include, rel):
-            return False
-        return not _matches_any(self._exclude, rel)
+            return f"not matched by include in {where}"
+        if _matches_any(self._exclude, rel):
+            return f"matched by exclude in {where}"
+        return None
 
 
 def _matches_any(globs: Sequence[Glob], rel: str) -> bool:
