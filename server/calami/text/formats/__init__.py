@@ -36,6 +36,8 @@ _REGISTRY: dict[str, tuple[str, str | None]] = {
     "c": ("source_clike", "c"),
     "cpp": ("source_clike", "cpp"),
     "java": ("source_clike", "java"),
+    "css": ("source_clike", "css"),
+    "ruby": ("source_ruby", None),
     "shell": ("source_hash", "shell"),
     "yaml": ("source_hash", "yaml"),
     "toml": ("source_hash", "toml"),
@@ -58,6 +60,8 @@ _EXTENSIONS = {
     ".cc": "cpp", ".cpp": "cpp", ".cxx": "cpp", ".c++": "cpp", ".hpp": "cpp", ".hh": "cpp", ".hxx": "cpp",
     ".ipp": "cpp", ".inl": "cpp",
     ".java": "java",
+    ".css": "css",
+    ".rb": "ruby", ".rake": "ruby", ".gemspec": "ruby",
     ".sh": "shell", ".bash": "shell", ".zsh": "shell", ".ksh": "shell", ".bats": "shell",
     ".yaml": "yaml", ".yml": "yaml",
     ".toml": "toml",
@@ -66,6 +70,7 @@ _FILE_NAMES = {
     "COMMIT_EDITMSG": "commit", "MERGE_MSG": "commit", "TAG_EDITMSG": "commit", "SQUASH_MSG": "commit",
     "EDIT_DESCRIPTION": "commit",
     "README": "plain", "AUTHORS": "plain", "NEWS": "plain",
+    "Rakefile": "ruby", "Gemfile": "ruby",
     "Pipfile": "toml", "Cargo.lock": "toml", "poetry.lock": "toml",
     ".bashrc": "shell", ".bash_profile": "shell", ".profile": "shell", ".zshrc": "shell", ".bash_aliases": "shell",
     ".clang-format": "yaml",
@@ -97,7 +102,7 @@ _SHEBANG = regex.compile(r"#!\s*(?:\S*/)?(?:env\s+(?:-\S+\s+)*)?(?P<prog>[A-Za-z
 _SHEBANG_PROGRAMS = {
     "sh": "shell", "bash": "shell", "zsh": "shell", "ksh": "shell", "dash": "shell", "ash": "shell",
     "node": "javascript", "nodejs": "javascript", "deno": "typescript", "bun": "javascript",
-    "ts-node": "typescript", "tsx": "typescript",
+    "ts-node": "typescript", "tsx": "typescript", "ruby": "ruby",
 }
 
 
