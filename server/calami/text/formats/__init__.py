@@ -23,6 +23,7 @@ __all__ = ["ExtractOptions", "KINDS", "detect_kind", "extract", "not_prose"]
 # kind -> (module, language passed to a family extractor or None)
 _REGISTRY: dict[str, tuple[str, str | None]] = {
     "markdown": ("markdown", None),
+    "notebook": ("notebook", None),
     "rst": ("rst", None),
     "latex": ("latex", None),
     "plain": ("plain", None),
@@ -47,6 +48,7 @@ KINDS: list[str] = list(_REGISTRY)
 
 _EXTENSIONS = {
     ".md": "markdown", ".markdown": "markdown", ".mdown": "markdown", ".mkd": "markdown", ".mdx": "markdown",
+    ".ipynb": "notebook",
     ".rst": "rst", ".rest": "rst",
     ".tex": "latex", ".sty": "latex", ".cls": "latex", ".ltx": "latex",
     ".txt": "plain", ".text": "plain",
