@@ -39,9 +39,9 @@ _INLINE = regex.compile(
     r"|\+\+?[^+\s](?:[^+\r\n]{0,500}[^+\s])?\+\+?"
     r"|\{[\w-]{1,60}\}"
     r"|(?:(?:link|xref|mailto|image|kbd|btn|menu|footnote|pass|stem|latexmath|asciimath|icon|anchor):"
-    r"[^\s\[]{0,500}|(?:https?|ftp|irc)://[^\s\[]{1,500})\[(?=[^\]\r\n]{0,500}\])"
-    r"|(?<=\[[^\[\]\r\n]{0,500})\]"  # the closing bracket of a macro's text
-    r"|<<[^,>\r\n]{1,200}(?:,|>>)|>>"
+    r"[^\s\[:]{0,300}|(?:https?|ftp|irc)://[^\s\[]{1,500})\[(?=[^\]\r\n]{0,500}\])"
+    r"|\](?<=\[[^\[\]\r\n]{0,500}\])"  # the closing bracket of a macro's text (bracket first: cheap)
+    r"|<<[^,<>\r\n]{1,200}(?:,|>>)|>>"
     r"|\[[.#%][^\]\r\n]{0,200}\](?=#)|#"
 )
 

@@ -41,8 +41,8 @@ _INLINE = regex.compile(
     r"|=[^=\s](?:[^=\r\n]{0,500}[^=\s])?="
     r"|src_[\w+-]{1,40}(?:\[[^\]\r\n]{0,200}\])?\{[^}\r\n]{0,500}\}"
     r"|\\\([^\r\n]{0,500}?\\\)|\$[^$\s](?:[^$\r\n]{0,300}[^$\s])?\$"
-    r"|\[\[[^\]\r\n]{1,1000}\]\]"  # [[target]]: the reader sees the target itself
-    r"|\[\[[^\]\r\n]{1,1000}\]\[|\]\]"  # [[target][ and the closing ]] of a described link
+    r"|\[\[[^\[\]\r\n]{1,1000}\]\]"  # [[target]]: the reader sees the target itself
+    r"|\[\[[^\[\]\r\n]{1,1000}\]\[|\]\]"  # [[target][ and the closing ]] of a described link
     r"|\[fn:[\w-]{0,60}\]"
     r"|[<\[]\d{4}-\d\d-\d\d[^\]>\r\n]{0,60}[\]>]"
 )
