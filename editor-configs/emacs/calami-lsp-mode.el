@@ -66,7 +66,7 @@ not on `exec-path'."
   :type 'string)
 
 (defcustom lsp-calami-word-list "calami-lexicon.txt"
-  "The project word list, relative to the project root."
+  "The project lexicon file, relative to the project root."
   :type 'string)
 
 (defcustom lsp-calami-modes

@@ -147,7 +147,7 @@ async function start(): Promise<void> {
     },
   };
 
-  // Project config and word list changes (a teammate's `git pull`) reach the
+  // Project config and lexicon changes (a teammate's `git pull`) reach the
   // server as workspace/didChangeWatchedFiles.
   // calami-words.txt is the lexicon's old name, still read by the server.
   const wordList = vscode.workspace.getConfiguration("calami").get<string>("wordList") || "calami-lexicon.txt";
