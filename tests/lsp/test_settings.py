@@ -67,5 +67,7 @@ def test_helix_wrapped_settings_are_unwrapped():
 def test_editor_language_names_map_to_kinds():
     from calami.lsp.documents import LANGUAGE_KINDS
 
-    for language, kind in {"gitcommit": "commit", "rst": "rst", "tex": "latex", "sh": "shell", "tsx": "typescript"}.items():
+    pairs = {"gitcommit": "commit", "rst": "rst", "tex": "latex", "sh": "shell", "tsx": "typescript",
+             "ruby": "ruby", "css": "css", "org": "org", "asciidoc": "asciidoc"}
+    for language, kind in pairs.items():
         assert LANGUAGE_KINDS[language] == kind
