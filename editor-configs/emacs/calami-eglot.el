@@ -39,7 +39,7 @@ not on `exec-path'."
     :checkStrings :json-false
     :debounceMs 150
     :modelPath ""
-    :wordList "calami-words.txt")
+    :wordList "calami-lexicon.txt")
   "Settings for the calami server, a plist.
 They are sent as initializationOptions, and as the answer when the server
 asks for the configuration section \"calami\".  Write false as :json-false.

@@ -65,8 +65,8 @@ not on `exec-path'."
   "A model file to use instead of the shipped one; empty for the shipped model."
   :type 'string)
 
-(defcustom lsp-calami-word-list "calami-words.txt"
-  "The project word list, relative to the project root."
+(defcustom lsp-calami-word-list "calami-lexicon.txt"
+  "The project lexicon file, relative to the project root."
   :type 'string)
 
 (defcustom lsp-calami-modes

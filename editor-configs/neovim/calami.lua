@@ -41,12 +41,12 @@ M.default_settings = {
     checkStrings = false,         -- also check string literals in source files
     debounceMs = 150,
     modelPath = '',               -- '' = the model shipped with calami
-    wordList = 'calami-words.txt',
+    wordList = 'calami-lexicon.txt',
   },
 }
 
 -- The project root is the nearest folder holding one of these.
-M.root_markers = { 'calami.toml', 'calami-words.txt', 'pyproject.toml', '.git' }
+M.root_markers = { 'calami.toml', 'calami-lexicon.txt', 'calami-words.txt', 'pyproject.toml', '.git' }
 
 local config = {
   cmd = { 'calami', 'serve' },

@@ -20,7 +20,7 @@ let s:default_settings = {
       \ 'checkStrings': v:false,
       \ 'debounceMs': 150,
       \ 'modelPath': '',
-      \ 'wordList': 'calami-words.txt',
+      \ 'wordList': 'calami-lexicon.txt',
       \ }
 
 let s:default_filetypes = [
@@ -36,7 +36,7 @@ let s:language_ids = {
       \ 'sh': 'shellscript', 'bash': 'shellscript',
       \ }
 
-let s:root_markers = ['calami.toml', 'calami-words.txt', 'pyproject.toml', '.git/', '.git']
+let s:root_markers = ['calami.toml', 'calami-lexicon.txt', 'calami-words.txt', 'pyproject.toml', '.git/', '.git']
 
 function! s:settings() abort
   let l:settings = deepcopy(s:default_settings)

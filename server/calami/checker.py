@@ -418,7 +418,8 @@ class Checker:
         if options is None:
             options = self._realword_options[kid] = [
                 (c, log_error + self._q(kid, c)) for c in nbrs
-                if lexicon.flags[c] & LOWER and lexicon.is_variant(c, self.variant)]
+                if lexicon.flags[c] & LOWER and lexicon.is_variant(c, self.variant)
+                and not lexicon.variant_pair(kid, c)]  # the variant setting decides those, not context
         lp = self._lp
         keys = lexicon.keys
         hyps = [(c, base + lp(c, left) + lp(right, c)) for c, base in options]

@@ -18,7 +18,7 @@ COMMANDS = {
     "check": "calami.commands.check",
     "suggest": "calami.commands.suggest",
     "serve": "calami.commands.serve",
-    "words": "calami.commands.words",
+    "lexicon": "calami.commands.words",  # also answers to its old name, "words"
     "profile": "calami.commands.profile",
     "model": "calami.commands.model",
 }

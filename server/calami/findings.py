@@ -12,6 +12,10 @@ from dataclasses import dataclass
 NONWORD = "nonword"
 REALWORD = "realword"
 
+# What people read for each kind (text report, summary, SARIF rule names):
+# the literature's non-word / real-word error distinction (Kukich 1992).
+KIND_LABELS = {NONWORD: "non-word", REALWORD: "real-word slip"}
+
 
 @dataclass(frozen=True, slots=True)
 class Suggestion:

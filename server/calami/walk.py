@@ -31,12 +31,32 @@ DEFAULT_MAX_BYTES = 2 * 1024 * 1024
 _SNIFF_BYTES = 8192
 
 
+# Why a file was not checked: the short names the summary counts.
+IGNORED = "git-ignored"
+EXCLUDED = "excluded by config"
+LINKED_FOLDER = "linked folder"
+NOT_READ = "not a kind calami reads"
+NOT_PROSE = "not prose"
+BINARY = "binary"
+TOO_LARGE = "too large"
+NOT_UTF8 = "not UTF-8"
+
+
 @dataclass(frozen=True)
 class Skipped:
     """A file we chose not to check, and why (shown as a note)."""
 
     path: Path
     reason: str
+    category: str = ""  # one of the names above
+
+
+# Called with each path the walk leaves out, its category and the reason.
+OnSkip = Callable[[Path, str, str], None]
+
+
+def _ignore_skip(path: Path, category: str, reason: str) -> None:
+    return None
 
 
 class IgnoreRules:
@@ -103,12 +123,16 @@ def _ignored_on_the_way(top: Path, folder: Path) -> bool:
     return False
 
 
-def walk(folder: Path, selects: Callable[[Path], bool] = lambda p: True) -> Iterator[Path]:
-    """Files under ``folder`` (sorted, depth first) that git would not ignore and ``selects`` keeps."""
+def walk(folder: Path, selects: Callable[[Path], bool] = lambda p: True, on_skip: OnSkip = _ignore_skip) -> Iterator[Path]:
+    """Files under ``folder`` (sorted, depth first) that git would not ignore and ``selects`` keeps.
+
+    Every path left out (an ignored folder counts once) goes to ``on_skip``.
+    """
     folder = folder.resolve()
     top = _work_tree_top(folder)
     if top is not None:
         if _ignored_on_the_way(top, folder):
+            on_skip(folder, IGNORED, "inside a folder ignored by .gitignore")
             return
         rules = _rules_down_to(top, folder)
         base = folder.relative_to(top).as_posix()
@@ -117,10 +141,12 @@ def walk(folder: Path, selects: Callable[[Path], bool] = lambda p: True) -> Iter
         top = folder
         rules = IgnoreRules().with_file("", folder / ".gitignore")
         base = ""
-    yield from _walk(folder, top, base, rules, selects)
+    yield from _walk(folder, top, base, rules, selects, on_skip)
 
 
-def _walk(folder: Path, top: Path, rel: str, rules: IgnoreRules, selects: Callable[[Path], bool]) -> Iterator[Path]:
+def _walk(
+    folder: Path, top: Path, rel: str, rules: IgnoreRules, selects: Callable[[Path], bool], on_skip: OnSkip
+) -> Iterator[Path]:
     try:
         entries = sorted(os.scandir(folder), key=lambda e: e.name)
     except OSError:
@@ -134,13 +160,19 @@ def _walk(folder: Path, top: Path, rel: str, rules: IgnoreRules, selects: Callab
             is_file = entry.is_file()
         except OSError:
             continue
-        if rules.ignored(child_rel, is_dir):
-            continue
         path = Path(entry.path)
+        if rules.ignored(child_rel, is_dir):
+            on_skip(path, IGNORED, "folder ignored by .gitignore" if is_dir else "ignored by .gitignore")
+            continue
         if is_dir:
-            yield from _walk(path, top, child_rel, rules.with_file(child_rel, path / ".gitignore"), selects)
-        elif is_file and selects(path):
-            yield path
+            yield from _walk(path, top, child_rel, rules.with_file(child_rel, path / ".gitignore"), selects, on_skip)
+        elif is_file:
+            if selects(path):
+                yield path
+            else:
+                on_skip(path, EXCLUDED, "left out by the project's include/exclude")
+        elif entry.is_symlink():
+            on_skip(path, LINKED_FOLDER, "symbolic link to a folder (not followed)")
 
 
 def read_document(path: Path, max_bytes: int = DEFAULT_MAX_BYTES) -> str | Skipped:
@@ -151,7 +183,7 @@ def read_document(path: Path, max_bytes: int = DEFAULT_MAX_BYTES) -> str | Skipp
     """
     size = path.stat().st_size
     if size > max_bytes:
-        return Skipped(path, f"larger than {_human(max_bytes)} ({_human(size)})")
+        return Skipped(path, f"larger than {_human(max_bytes)} ({_human(size)})", TOO_LARGE)
     with open(path, "rb") as handle:
         data = handle.read(max_bytes + 1)
     return decode_document(path, data)
@@ -159,12 +191,12 @@ def read_document(path: Path, max_bytes: int = DEFAULT_MAX_BYTES) -> str | Skipp
 
 def decode_document(path: Path, data: bytes) -> str | Skipped:
     if b"\0" in data[:_SNIFF_BYTES]:
-        return Skipped(path, "binary file")
+        return Skipped(path, "binary file", BINARY)
     try:
         return data.decode("utf-8-sig")
     except UnicodeDecodeError as exc:
         line = data[: exc.start].count(b"\n") + 1
-        return Skipped(path, f"not UTF-8 text (line {line})")
+        return Skipped(path, f"not UTF-8 text (line {line})", NOT_UTF8)
 
 
 def _human(size: int) -> str:

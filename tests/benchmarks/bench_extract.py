@@ -66,6 +66,30 @@ def generate(kind: str, size: int, seed: int = 7) -> str:
                 f"def f{i}(x):\n    \"\"\"{_sentence(rng)}\n\n    :param x: {_sentence(rng, 5)}\n    \"\"\"\n"
                 f"    # {_sentence(rng)}\n    y = x + {i}  # {_sentence(rng, 4)}\n    return \"s # {i}\"\n\n"
             )
+        elif kind == "ruby":
+            block = (
+                f"# {_sentence(rng)}\ndef f{i}(x)\n  y = \"a # {i}\" + %q(b # {i}) # {_sentence(rng, 4)}\n"
+                f"  x =~ /#{i}/\nend\n=begin\n{_sentence(rng)}\n=end\n"
+            )
+        elif kind == "css":
+            block = f"/* {_sentence(rng)} */\n.c{i} {{ background: url(http://x/{i}.png); content: \"/* {i} */\"; }}\n"
+        elif kind == "org":
+            block = (
+                f"* TODO Section {i} :tag:\n{p} See ~code_{i}~ and [[https://example.org/{i}][the docs]].\n\n"
+                f"- [ ] {_sentence(rng, 6)}\n#+BEGIN_SRC python\nx = {i}\n#+END_SRC\n| {_sentence(rng, 4)} | two |\n\n"
+            )
+        elif kind == "asciidoc":
+            block = (
+                f"== Section {i}\n\n{p} See `code_{i}` and https://example.org/{i}[the docs].\n\n"
+                f"* {_sentence(rng, 6)}\n\n[source,python]\n----\nx = {i}\n----\n\n|===\n| {_sentence(rng, 4)} | two\n|===\n\n"
+            )
+        elif kind == "notebook":
+            import json
+
+            cell = {"cell_type": "markdown", "metadata": {}, "source": [f"## Part {i}\n", "\n", f"{p} See `x`.\n"]}
+            code = {"cell_type": "code", "metadata": {}, "outputs": [], "execution_count": None,
+                    "source": [f"# {_sentence(rng)}\n", f"x = {i}"]}
+            block = json.dumps(cell, ensure_ascii=False) + ",\n" + json.dumps(code) + ",\n"
         elif kind in ("shell", "yaml", "toml"):
             body = {"shell": f'echo "a # {i}" $x\n', "yaml": f'key{i}: "v # {i}"\n', "toml": f'k{i} = "v # {i}"\n'}[kind]
             block = f"# {_sentence(rng)}\n{body}# {_sentence(rng)}\n"
@@ -76,6 +100,8 @@ def generate(kind: str, size: int, seed: int = 7) -> str:
             )
         parts.append(block)
         total += len(block)
+    if kind == "notebook":
+        return '{"cells": [\n' + "".join(parts).rstrip(",\n") + '\n], "metadata": {}, "nbformat": 4, "nbformat_minor": 5}\n'
     return "".join(parts)
 
 
@@ -87,6 +113,11 @@ def adversarial(kind: str) -> dict[str, str]:
             "rst": "``x " * 30_000 + ":r:`x " * 30_000,
             "latex": "\\label{" * 30_000 + "$" + "\\begin{verbatim}" * 10_000,
             "html": "<a \"" * 30_000 + "<script>" * 10_000,
+            "ruby": "%q(" * 30_000 + "<<~EOS\n" * 10_000,
+            "org": "[[" * 30_000 + "~" * 30_000 + "#+BEGIN_SRC\n" * 10_000,
+            "asciidoc": "<<" * 30_000 + "link:" * 30_000 + "----\n" * 10_000,
+            "notebook": '{"cells": [{"cell_type": "markdown", "source": "' + "\\u00e9" * 30_000 + "\\",
+
         }.get(kind, "/* \" ' ` r#\" \"\"\" '''" * 20_000),
     }
 

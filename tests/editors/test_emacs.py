@@ -16,6 +16,7 @@ from pathlib import Path
 
 import pytest
 
+from calami.lsp.actions import add_to_lexicon_title
 from editor_support import EDITOR_CONFIGS, copy_demo, isolated_env, planted_mistakes, replaced, server_command
 
 pytestmark = pytest.mark.editor
@@ -89,7 +90,7 @@ def test_emacs_eglot_shows_the_demo_hints_and_applies_the_preferred_fix(tmp_path
     assert (result["menu_prompt"] or "").endswith(f"(default Replace with '{target.intended}'): "), result["menu_prompt"]
     choices = result["menu_choices"]
     assert choices[0] == f"Replace with '{target.intended}'"
-    assert choices[-3:] == [f"Add '{target.word}' to project words", f"Add '{target.word}' to my words",
+    assert choices[-3:] == [add_to_lexicon_title(target.word), f"Add '{target.word}' to my words",
                             f"Ignore '{target.word}' in this document"]
 
     assert result["changed"] and result["modified"]

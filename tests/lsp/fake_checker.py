@@ -8,6 +8,8 @@ and is, like the real checker, a pure function of a sentence's tokens.
 
 from __future__ import annotations
 
+import os
+import time
 from typing import Any, Sequence
 
 from calami.findings import NONWORD, REALWORD, Finding, Suggestion, Thresholds
@@ -24,6 +26,20 @@ TYPOS: dict[str, list[tuple[str, float]]] = {
 }
 # "form" after one of these words is probably "from" (a real-word slip).
 REALWORD_LEFT = {"away", "came", "far", "apart"}
+
+# A sentence holding this word makes the fake wait while the file named by
+# $CALAMI_FAKE_GATE exists: a test can hold the checker busy for as long as
+# it needs, so what it asserts about a busy server never depends on speed.
+STALL_WORD = "stallword"
+GATE_ENV = "CALAMI_FAKE_GATE"
+GATE_LIMIT_S = 600.0  # a forgotten gate must not hang a test run forever
+
+
+def _wait_at_gate() -> None:
+    gate = os.environ.get(GATE_ENV)
+    deadline = time.monotonic() + GATE_LIMIT_S
+    while gate and os.path.exists(gate) and time.monotonic() < deadline:
+        time.sleep(0.01)
 
 
 class FakeChecker:
@@ -59,6 +75,8 @@ class FakeChecker:
 
     def check_sentence(self, tokens: Sequence[Token]) -> list[Finding]:
         self.calls += 1
+        if any(t.text == STALL_WORD for t in tokens):
+            _wait_at_gate()
         out: list[Finding] = []
         for i, tok in enumerate(tokens):
             if tok.kind != WORD or self._accepted(tok.text):

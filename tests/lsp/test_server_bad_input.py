@@ -2,6 +2,7 @@
 
 from __future__ import annotations
 
+import asyncio
 import os
 
 import pytest
@@ -9,12 +10,18 @@ from lsprotocol import types
 from pygls.exceptions import JsonRpcException
 
 from calami.lsp.documents import MAX_CHECKED_CHARS
+from fake_checker import GATE_ENV, STALL_WORD
 from session import edit, open_doc, published_for, start, stop, until
+
+
+# Only to notice a hang: what these tests assert is about order, not speed,
+# so a loaded machine can take as long as it needs.
+HANG_S = 600.0
 
 
 async def _still_serving(client, folder, name="alive.md"):
     uri = open_doc(client, folder / name, "teh\n")
-    params = await until(lambda: published_for(client, uri, 1))
+    params = await until(lambda: published_for(client, uri, 1), timeout=HANG_S)
     assert len(params.diagnostics) == 1
 
 
@@ -65,16 +72,33 @@ async def test_unknown_uris(tmp_path, folder):
 
 
 async def test_a_5mb_single_line_document_is_capped_and_the_server_stays_responsive(tmp_path, folder):
-    client, _ = await start(tmp_path / "profile", [folder])
+    gate = tmp_path / "checker-busy"
+    gate.write_text("")  # the fake checker waits on STALL_WORD while this exists
+    client, _ = await start(tmp_path / "profile", [folder], env={GATE_ENV: str(gate)})
     try:
-        text = ("teh quick brown fox " * 262_144)  # 5 MiB, one line
+        small = open_doc(client, folder / "small.md", "teh\n")
+        await until(lambda: published_for(client, small, 1), timeout=HANG_S)
+        text = f"{STALL_WORD} " + "teh quick brown fox " * 262_144  # 5 MiB, one line
         uri = open_doc(client, folder / "big.txt", text, language="plaintext")
-        await _still_serving(client, folder)
-        params = await until(lambda: published_for(client, uri, 1), timeout=120)
+        await until(lambda: _logged(client, "checking only the first"), timeout=HANG_S)
+        # The big document's check is held at the gate, so it cannot have ended:
+        # answers now prove that requests are served while it runs.
+        hover = await asyncio.wait_for(client.text_document_hover_async(types.HoverParams(
+            types.TextDocumentIdentifier(small), types.Position(0, 1))), HANG_S)
+        assert hover is not None and "teh" in hover.contents.value
+        actions = await asyncio.wait_for(client.text_document_code_action_async(types.CodeActionParams(
+            types.TextDocumentIdentifier(small), types.Range(types.Position(0, 0), types.Position(0, 3)),
+            types.CodeActionContext([]))), HANG_S)
+        assert actions and actions[0].title == "Replace with 'the'"
+        assert published_for(client, uri, 1) is None  # still held: the order above is certain
+        gate.unlink()
+        params = await until(lambda: published_for(client, uri, 1), timeout=HANG_S)
         assert params.diagnostics  # the first part was checked ...
         assert max(d.range.end.character for d in params.diagnostics) <= MAX_CHECKED_CHARS  # ... and only that
-        assert _logged(client, "checking only the first")
+        await _still_serving(client, folder)
     finally:
+        if gate.exists():
+            gate.unlink()
         await stop(client)
 
 

@@ -5,6 +5,7 @@ from __future__ import annotations
 import pytest
 from lsprotocol import types
 
+from calami.lsp.actions import add_to_lexicon_title
 from session import capabilities, edit, open_doc, published_for, start, stop, until
 
 
@@ -93,7 +94,7 @@ async def test_code_actions_rank_fixes_and_offer_word_commands(tmp_path, folder)
         )
         titles = [a.title for a in result]
         assert titles == [
-            "Replace with 'the'", "Replace with 'ten'", "Add 'teh' to project words",
+            "Replace with 'the'", "Replace with 'ten'", add_to_lexicon_title("teh"),
             "Add 'teh' to my words", "Ignore 'teh' in this document",
         ]
         assert result[0].is_preferred and not result[1].is_preferred

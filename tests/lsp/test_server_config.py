@@ -13,7 +13,7 @@ def _project(root, toml=None, words=None):
     if toml is not None:
         (root / "calami.toml").write_text(toml)
     if words is not None:
-        (root / "calami-words.txt").write_text(words)
+        (root / "calami-lexicon.txt").write_text(words)
     return root
 
 
@@ -70,12 +70,13 @@ async def test_watched_word_list_change_reloads_words(tmp_path):
     try:
         await until(lambda: client.registrations)
         globs = [w["globPattern"] for w in client.registrations[0].register_options["watchers"]]
-        assert "**/calami-words.txt" in globs and "**/calami.toml" in globs
+        assert "**/calami-lexicon.txt" in globs and "**/calami.toml" in globs
+        assert "**/calami-words.txt" in globs  # the old name is still read, so watched
         uri = open_doc(client, root / "a.md", "teh wrold\n")
         await until(lambda: published_for(client, uri, 1))
-        (root / "calami-words.txt").write_text("# team words\nwrold\n")  # a teammate's git pull
+        (root / "calami-lexicon.txt").write_text("# team words\nwrold\n")  # a teammate's git pull
         client.workspace_did_change_watched_files(types.DidChangeWatchedFilesParams(
-            [types.FileEvent((root / "calami-words.txt").as_uri(), types.FileChangeType.Changed)]))
+            [types.FileEvent((root / "calami-lexicon.txt").as_uri(), types.FileChangeType.Changed)]))
         await until(lambda: [d.data["word"] for d in client.diagnostics[uri]] == ["teh"])
     finally:
         await stop(client)
@@ -125,3 +126,25 @@ async def test_a_damaged_profile_is_moved_aside_and_the_user_told(tmp_path):
         await stop(client)
     names = sorted(p.name for p in profile_dir.iterdir())
     assert names[0] == "profile.msgpack" and names[1].startswith("profile.msgpack.corrupt-")
+
+
+async def test_old_lexicon_name_is_read_with_a_note_and_the_quick_fix_edits_it(tmp_path):
+    from calami.lsp.actions import add_to_lexicon_title
+    from calami.vocab.project import LEGACY_WORD_LIST
+
+    root = _project(tmp_path / "p")
+    (root / LEGACY_WORD_LIST).write_text("wrold\n")
+    client, _ = await start(tmp_path / "profile", [root], options={"debounceMs": 0})
+    try:
+        uri = open_doc(client, root / "a.md", "teh wrold\n")
+        params = await until(lambda: published_for(client, uri, 1))
+        assert [d.data["word"] for d in params.diagnostics] == ["teh"]  # the old list still counts
+        await until(lambda: any(LEGACY_WORD_LIST in m.message and "rename" in m.message for m in client.messages))
+        actions = await client.text_document_code_action_async(types.CodeActionParams(
+            types.TextDocumentIdentifier(uri), params.diagnostics[0].range, types.CodeActionContext(params.diagnostics)))
+        [add] = [a for a in actions if a.title == add_to_lexicon_title("teh")]
+        await client.workspace_execute_command_async(types.ExecuteCommandParams(add.command.command, add.command.arguments))
+        await until(lambda: (root / LEGACY_WORD_LIST).read_text() == "teh\nwrold\n")
+        assert not (root / "calami-lexicon.txt").exists()  # one list, not two
+    finally:
+        await stop(client)

@@ -12,7 +12,7 @@ def test_defaults_match_the_documented_values():
     s = Settings()
     assert (s.variant, s.hint_threshold, s.confident_threshold, s.max_suggestions) == ("any", 0.5, 0.95, 5)
     assert (s.severity_nonword, s.severity_realword, s.check_strings, s.debounce_ms) == ("information", "hint", False, 150)
-    assert (s.model_path, s.word_list) == ("", "calami-words.txt")
+    assert (s.model_path, s.word_list) == ("", "calami-lexicon.txt")
 
 
 def test_dotted_nested_and_whole_tree_forms_mean_the_same():
@@ -67,5 +67,7 @@ def test_helix_wrapped_settings_are_unwrapped():
 def test_editor_language_names_map_to_kinds():
     from calami.lsp.documents import LANGUAGE_KINDS
 
-    for language, kind in {"gitcommit": "commit", "rst": "rst", "tex": "latex", "sh": "shell", "tsx": "typescript"}.items():
+    pairs = {"gitcommit": "commit", "rst": "rst", "tex": "latex", "sh": "shell", "tsx": "typescript",
+             "ruby": "ruby", "css": "css", "org": "org", "asciidoc": "asciidoc"}
+    for language, kind in pairs.items():
         assert LANGUAGE_KINDS[language] == kind

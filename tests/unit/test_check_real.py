@@ -76,7 +76,7 @@ def test_demo_reports_exactly_the_planted_mistakes(real_check):
 @needs_model
 def test_code_is_not_checked_and_project_words_are_accepted(real_check, tmp_path):
     (tmp_path / ".git").mkdir()
-    (tmp_path / "calami-words.txt").write_text("zorblatt\n")
+    (tmp_path / "calami-lexicon.txt").write_text("zorblatt\n")
     (tmp_path / "a.md").write_text(
         "# Notes\n\nThe zorblatt server will recieve the request.\n\n```\nrecieve = 1\n```\n\nCall `recieve()` here.\n"
     )
@@ -92,3 +92,26 @@ def test_clean_prose_exits_zero(real_check, tmp_path):
     (tmp_path / "ok.txt").write_text("The server reads the file from disk and writes a short report.\n")
     code, findings, _ = real_check(tmp_path, "ok.txt")
     assert (code, findings) == (0, [])
+
+
+def test_word_count_is_the_same_through_the_engine_and_the_whole_text_path(model):
+    # The engine scores sentences of scoring tokens (with placeholders for inline
+    # code); the count must still be the prose words the benchmark counts.
+    from calami.checker import Checker
+    from calami.commands.check import check_document
+    from calami.text.formats import extract
+    from calami.text.tokens import SKIP, tokenize
+    from calami.vocab.project import Project
+
+    text = (DEMO / "README.md").read_text(encoding="utf-8")
+    project = Project(DEMO)
+    engine, whole = {}, {}
+    check_document(text, "markdown", project, Checker(model, adaptations=[project.words]), engine)
+
+    class WholeText:
+        def check(self, text, spans):
+            return []
+
+    check_document(text, "markdown", project, WholeText(), whole)
+    benchmark_count = sum(1 for t in tokenize(text, extract(text, "markdown")) if t.kind != SKIP)
+    assert engine["words"] == whole["words"] == benchmark_count > 100

@@ -86,6 +86,56 @@ def test_variant_policy(model):
     assert Checker(model).check("The colour and the color of the logo.") == []
 
 
+# British and American spellings of the same words (pairs from general
+# knowledge of English spelling, from memory), in sentences of our own.
+VARIANT_SENTENCES = {
+    "en-GB": [
+        "The values are normalised before the optimisation step.",
+        "We specialise the parser and analyse the colour of each catalogue entry.",
+        "The organisation changed the licence of the centre last year.",
+        "The data is normalised, the behaviour is modelled and the job is cancelled.",
+    ],
+    "en-US": [
+        "The values are normalized before the optimization step.",
+        "We specialize the parser and analyze the color of each catalog entry.",
+        "The organization changed the license of the center last year.",
+        "The data is normalized, the behavior is modeled and the job is canceled.",
+    ],
+}
+
+
+@pytest.mark.parametrize("written", ["en-GB", "en-US"])
+@pytest.mark.parametrize("setting", ["any", "en-GB", "en-US"])
+def test_a_variant_spelling_is_never_flagged_towards_the_other_variant(model, written, setting):
+    checker = Checker(model, variant=setting)
+    for sentence in VARIANT_SENTENCES[written]:
+        found = checker.check(sentence)
+        if setting in ("any", written):
+            assert found == [], (sentence, [(f.word, f.kind, f.best) for f in found])
+        else:
+            # The project asked for the other variant: a non-word with that variant's form as the fix.
+            assert all(f.kind == NONWORD for f in found), sentence
+        for finding in found:
+            typed = model.lexicon.ids.get(finding.word.lower())
+            for suggestion in finding.suggestions:
+                fixed = model.lexicon.ids.get(suggestion.text.lower())
+                assert fixed is None or model.lexicon.is_variant(fixed, setting), (finding.word, suggestion.text)
+                if setting in ("any", written):
+                    assert typed is None or fixed is None or not model.lexicon.variant_pair(typed, fixed)
+
+
+def test_en_us_setting_still_fixes_british_forms(model):
+    us = Checker(model, variant="en-US")
+    found = us.check("The values are normalised before the optimisation step.")
+    assert [(f.word, f.kind, f.best) for f in found] == [
+        ("normalised", NONWORD, "normalized"), ("optimisation", NONWORD, "optimization")]
+
+
+def test_real_word_slips_remain_found_next_to_variant_spellings(model):
+    gb = Checker(model, variant="en-GB")
+    assert words(gb.check("The colour was loaded form disk.")) == [("form", REALWORD, "from")]
+
+
 class Memory:
     """A minimal adaptation: accepted words, accepted fixes, ignores."""
 

@@ -234,6 +234,49 @@ def test_toml():
     assert "multi # not" in texts(src, "toml", strings=True)
 
 
+def test_css_block_comments_only():
+    src = (
+        '/* Panel layout. */\na { background: url(http://example.org//x.png); }\n'
+        'b::before { content: "/* not */"; } /* after */\n/** Doc block. */\n// not a CSS comment\n'
+    )
+    assert pieces(src, "css") == [("Panel layout.", "comment", True), ("after", "comment", True),
+                                  ("Doc block.", "doc", True)]
+    assert "/* not */" in texts(src, "css", strings=True)
+
+
+def test_ruby_strings_literals_heredocs_and_end_marker():
+    src = (
+        "# Top comment.\n"
+        'a = "x # not" # after dq\n'
+        "b = 'y # not' # after sq\n"
+        "c = %q(nested (parens # not) here) # after percent\n"
+        "d = %w[e#f g] # after words\n"
+        "e = x / 2 # after division\n"
+        "f = text =~ /#not/ # after regex\n"
+        "g = ?# # after char\n"
+        "h = <<~EOS\n  # not in heredoc\nEOS\n"
+        "k = <<-'RAW'\n  # raw not\n  RAW\n"
+        "=begin\nDoc block line.\n=end\n"
+        "# After the block.\n"
+        "__END__\n# data, not code\n"
+    )
+    assert texts(src, "ruby") == [
+        "Top comment.", "after dq", "after sq", "after percent", "after words", "after division",
+        "after regex", "after char", "Doc block line.", "After the block.",
+    ]
+    assert pieces(src, "ruby")[8][1] == "doc"
+    with_strings = texts(src, "ruby", strings=True)
+    assert "x # not" in with_strings and "nested (parens # not) here" in with_strings
+    assert "e#f g" not in with_strings  # a word list is not prose
+
+
+def test_ruby_and_css_files_are_detected():
+    from calami.text.formats import detect_kind
+
+    assert [detect_kind(n) for n in ("a.rb", "Rakefile", "x.gemspec", "site.css")] == ["ruby", "ruby", "ruby", "css"]
+    assert detect_kind("tool", "#!/usr/bin/env ruby") == "ruby"
+
+
 # --- offsets with CRLF, tabs, emoji, CJK ----------------------------------------------------
 
 
@@ -246,6 +289,8 @@ def test_toml():
         ("shell", "echo '漢字 🎉'\r\n\t# 🎉 漢字 wrold here\r\n"),
         ("yaml", "k: '漢字 🎉'\r\n\t# 🎉 漢字 wrold here\r\n"),
         ("toml", "k = '漢字 🎉'\r\n\t# 🎉 漢字 wrold here\r\n"),
+        ("ruby", "x = '漢字 🎉'\r\n\t# 🎉 漢字 wrold here\r\n"),
+        ("css", "a { content: '漢字 🎉' }\r\n\t/* 🎉 漢字 wrold here */\r\n"),
     ],
 )
 def test_offsets_survive_crlf_tabs_emoji_cjk(kind: str, src: str):
@@ -260,7 +305,10 @@ _ORACLE = {
     "c": ("c", "c"), "cpp": ("cpp", "cpp"), "java": ("java", "java"), "js": ("javascript", "javascript"),
     "ts": ("typescript", "typescript"), "go": ("go", "go"), "rs": ("rust", "rust"), "py": ("python", "python"),
     "sh": ("shell", "bash"), "yaml": ("yaml", "yaml"), "toml": ("toml", "toml"),
+    "css": ("css", "css"), "rb": ("ruby", "ruby"),
 }
+# Pygments keeps a comment's own markers in the token where they are words.
+_MARKER_WORDS = {"ruby": regex.compile(r"^=(?:begin|end)\b", regex.MULTILINE)}
 
 
 @pytest.mark.parametrize("ext", sorted(_ORACLE))
@@ -275,6 +323,8 @@ def test_comment_words_agree_with_pygments(ext: str):
             tok in token.Comment.Preproc or tok in token.Comment.PreprocFile or tok in token.Comment.Hashbang
         )
         if is_comment or (tok in token.String.Doc and kind in ("python", "rust")):
+            if kind in _MARKER_WORDS:
+                value = _MARKER_WORDS[kind].sub("", value)
             theirs.update(_WORD.findall(value))
     ours: Counter[str] = Counter()
     for s in extract(src, kind):
@@ -286,7 +336,8 @@ def test_comment_words_agree_with_pygments(ext: str):
 # --- robustness ------------------------------------------------------------------------------
 
 
-@pytest.mark.parametrize("kind", ["python", "javascript", "typescript", "rust", "go", "c", "cpp", "java", "shell", "yaml", "toml"])
+@pytest.mark.parametrize("kind", ["python", "javascript", "typescript", "rust", "go", "c", "cpp", "java", "shell", "yaml", "toml",
+                                  "css", "ruby"])
 @pytest.mark.parametrize(
     "src",
     [
@@ -300,6 +351,9 @@ def test_comment_words_agree_with_pygments(ext: str):
         "`" * 100_000,
         "/[" * 30_000,  # JavaScript: every '/' may open a regex literal with an unclosed class
         '"a\\' * 30_000,  # one long line of strings: line ends must not be searched again and again
+        "%q(" * 30_000,  # Ruby: unclosed %-literals, each would search to the end
+        "<<~EOS\n" * 5_000,  # Ruby: here-documents that never end
+        "=begin\n" * 5_000,
     ],
 )
 def test_adversarial_inputs_do_not_raise(kind: str, src: str):

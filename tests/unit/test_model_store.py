@@ -41,6 +41,26 @@ def test_missing_file(tmp_path):
         load(tmp_path / "nope.msgpack")
 
 
+def test_a_path_the_user_gave_is_a_typo_not_a_broken_installation(tmp_path, monkeypatch):
+    with pytest.raises(ModelError) as given:
+        load(tmp_path / "nope.msgpack")
+    assert str(tmp_path / "nope.msgpack") in str(given.value) and "--model" in str(given.value)
+    assert "reinstall" not in str(given.value)
+    monkeypatch.setenv("CALAMI_MODEL", str(tmp_path / "env.msgpack"))
+    with pytest.raises(ModelError) as from_env:
+        load()
+    assert "CALAMI_MODEL" in str(from_env.value) and "reinstall" not in str(from_env.value)
+
+
+def test_a_missing_shipped_model_still_says_reinstall(tmp_path, monkeypatch):
+    import calami.model as model_module
+
+    monkeypatch.delenv("CALAMI_MODEL", raising=False)
+    monkeypatch.setattr(model_module, "default_model_path", lambda: tmp_path / "shipped.msgpack")
+    with pytest.raises(ModelError, match="reinstall calami"):
+        load()
+
+
 def test_truncated_file(tiny, tmp_path):
     _, path = tiny
     bad = tmp_path / "truncated.msgpack"

@@ -7,7 +7,7 @@ import json
 
 import pytest
 
-from calami.findings import Finding, Suggestion
+from calami.findings import KIND_LABELS, Finding, Suggestion
 from calami.report import Summary, json_array, locate
 from calami.report import text as text_report
 from calami.report.progress import Progress
@@ -31,24 +31,47 @@ def test_findings_are_reported_in_document_order():
     assert [p.finding.word for p in placed] == ["one", "three"]
 
 
+MARKED = text_report.MARK_OPEN + "{}" + text_report.MARK_CLOSE
+
+
 def test_long_lines_are_cut_around_the_word():
     text = "word " * 60 + "typo " + "tail " * 60
     [item] = locate("f", text, [_finding(text, "typo")])
-    block = text_report.render_one(item).splitlines()
-    context, marker = block[1], block[2]
-    assert len(context) < 220 and "…" in context
-    assert context[marker.index("^"):marker.index("^") + 4] == "typo"
+    context = text_report.render_one(item).splitlines()[1]
+    assert len(context) < 220 and context.strip().startswith("…") and context.endswith("…")
+    assert MARKED.format("typo") in context
+    assert context.count("word") >= 5 and context.count("tail") >= 5  # context kept on both sides
+
+
+def test_a_short_line_is_shown_whole_with_the_word_marked_inline():
+    text = "The daemon will recieve the batch."
+    [item] = locate("docs/guide.md", text, [_finding(text, "recieve", confident=True, suggestions=("receive", "relieve"))])
+    label = KIND_LABELS["nonword"]
+    assert text_report.render_one(item).splitlines() == [
+        f"docs/guide.md:1:17: recieve ({label}, confident fix)",
+        text_report.INDENT + "The daemon will " + MARKED.format("recieve") + " the batch.",
+        text_report.INDENT + "fixes: receive, relieve",
+    ]
+
+
+def test_the_old_compiler_like_layout_is_gone():
+    # Our own layout: no numbered gutter, no caret underline, no "= suggestions:" line.
+    text = "some teh text"
+    [item] = locate("f", text, [_finding(text, "teh")])
+    block = text_report.render_one(item)
+    assert " | " not in block and "^" not in block and "= suggestions" not in block
 
 
 def test_render_colour_and_labels():
     text = "data form disk"
     [item] = locate("p.md", text, [_finding(text, "form", kind="realword", suggestions=("from", "fork"))])
     plain = text_report.render_one(item, colour=False)
-    assert plain.splitlines()[0] == "p.md:1:6: form (possibly the wrong word)"
-    assert plain.splitlines()[3].endswith("= suggestions: from, fork")
+    assert plain.splitlines()[0] == f"p.md:1:6: form ({KIND_LABELS['realword']})"
+    assert plain.splitlines()[2].endswith("fixes: from, fork")
     coloured = text_report.render_one(item, colour=True)
     assert "\x1b[33m" in coloured and "\x1b[0m" in coloured
-    assert text_report.render_one(item, colour=True).count("^") == 4
+    # The marks stay with colour on, so a copied log still shows the word.
+    assert text_report.MARK_OPEN in coloured and text_report.MARK_CLOSE in coloured
 
 
 class _Tty(io.StringIO):
@@ -70,10 +93,15 @@ def test_use_colour_follows_terminal_and_no_color(monkeypatch):
 @pytest.mark.parametrize(
     "summary, line",
     [
-        (Summary(files_checked=3), "No findings in 3 files checked."),
-        (Summary(files_checked=1, files_skipped=1), "No findings in 1 file checked, 1 file skipped."),
-        (Summary(files_checked=4, files_with_findings=2, nonword=2, realword=1),
-         "3 findings (2 unknown, 1 wrong-word) in 2 files; 4 files checked."),
+        (Summary(files_checked=3, words=1234), "No findings in 3 files checked (1,234 words)."),
+        (Summary(files_checked=1, words=1, files_skipped=3, skipped={"binary": 1, "git-ignored": 2}),
+         "No findings in 1 file checked (1 word); 3 skipped (2 git-ignored, 1 binary)."),
+        (Summary(files_checked=4, files_with_findings=2, nonword=2, realword=1, words=1500),
+         f"3 findings (2 {KIND_LABELS['nonword']}s, 1 {KIND_LABELS['realword']}) in 2 files; "
+         "4 files checked (1,500 words), 2.00 findings per 1,000 words."),
+        (Summary(files_skipped=2, skipped={"not a kind calami reads": 2}),
+         "Nothing checked: 2 skipped (2 not a kind calami reads); --verbose names them."),
+        (Summary(), "Nothing checked: no files found."),
     ],
 )
 def test_summary_line(summary, line):

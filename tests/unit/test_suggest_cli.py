@@ -44,3 +44,21 @@ def test_malformed_line_is_reported_and_the_rest_answered():
 def test_bad_limit():
     proc = run("teh\n", "--limit", "0")
     assert proc.returncode == 2 and proc.stderr.startswith("calami: ")
+
+
+def test_says_whether_the_word_is_known_and_leaves_out_zero_alternatives():
+    proc = run("teh\nthe\nnormalised\ncolour\n", "--limit", "5")
+    assert proc.returncode == 0, proc.stderr
+    records = {r["word"]: r for r in map(json.loads, proc.stdout.splitlines())}
+    assert [records[w]["known"] for w in ("teh", "the", "normalised", "colour")] == [False, True, True, True]
+    for record in records.values():
+        assert all(s["probability"] > 0 for s in record["suggestions"]), record
+    # A right word in one variant is never offered its other-variant spelling.
+    assert "normalized" not in [s["text"] for s in records["normalised"]["suggestions"]]
+    assert "color" not in [s["text"] for s in records["colour"]["suggestions"]]
+
+
+def test_known_follows_the_variant():
+    proc = run("colour\n", "--variant", "en-US")
+    [record] = map(json.loads, proc.stdout.splitlines())
+    assert record["known"] is False and record["suggestions"][0]["text"] == "color"

@@ -10,7 +10,9 @@ from pathlib import Path
 import pytest
 
 from calami.vocab.globs import compile_glob, parse_ignore_file
-from calami.walk import Skipped, decode_document, read_document, walk
+from calami.walk import (
+    BINARY, EXCLUDED, IGNORED, LINKED_FOLDER, NOT_UTF8, TOO_LARGE, Skipped, decode_document, read_document, walk,
+)
 
 FILES = [
     "README.md", "notes.txt", "debug.log", "logs/today.log", "logs/keep.log", "build/out.md",
@@ -126,8 +128,26 @@ def test_read_document_skips_binary_large_and_non_utf8(tmp_path):
     (tmp_path / "big").write_text("x" * 50)
     (tmp_path / "latin").write_bytes(b"ok\ncaf\xe9\n")
     (tmp_path / "bom").write_bytes("\ufeffhello".encode("utf-8"))
-    assert read_document(tmp_path / "bin") == Skipped(tmp_path / "bin", "binary file")
-    assert isinstance(read_document(tmp_path / "big", max_bytes=10), Skipped)
+    assert read_document(tmp_path / "bin") == Skipped(tmp_path / "bin", "binary file", BINARY)
+    assert read_document(tmp_path / "big", max_bytes=10).category == TOO_LARGE
     assert read_document(tmp_path / "latin").reason == "not UTF-8 text (line 2)"
+    assert read_document(tmp_path / "latin").category == NOT_UTF8
     assert read_document(tmp_path / "bom") == "hello"  # the byte-order mark is not text
     assert decode_document(Path("x"), "naïve 🙂".encode()) == "naïve 🙂"
+
+
+def test_every_path_left_out_is_reported_with_its_category(tmp_path):
+    (tmp_path / ".git").mkdir()
+    (tmp_path / ".gitignore").write_text("build/\n*.tmp\n")
+    for name in ("a.md", "b.tmp", "build/out.md", "build/deep/x.md", "drop.md", "real/c.md"):
+        (tmp_path / name).parent.mkdir(parents=True, exist_ok=True)
+        (tmp_path / name).write_text("x")
+    (tmp_path / "loop").symlink_to(tmp_path / "real", target_is_directory=True)
+    skipped = []
+    found = list(walk(tmp_path, lambda p: p.name != "drop.md", lambda p, c, r: skipped.append((p.name, c))))
+    assert [p.name for p in found] == [".gitignore", "a.md", "c.md"]
+    # The ignored folder counts once; nothing inside it is visited.
+    assert sorted(skipped) == sorted([("b.tmp", IGNORED), ("build", IGNORED), ("drop.md", EXCLUDED), ("loop", LINKED_FOLDER)])
+    inside = []
+    assert list(walk(tmp_path / "build", on_skip=lambda p, c, r: inside.append((p.name, c, r)))) == []
+    assert inside == [("build", IGNORED, "inside a folder ignored by .gitignore")]

@@ -118,10 +118,10 @@ def repo(tmp_path, monkeypatch):
 
 
 def test_cli_add_edits_the_first_list_at_the_project_root(repo, capsys):
-    assert cli.main(["words", "add", "Zorblat", "quux"]) == 0
-    assert (repo / "calami-words.txt").read_text() == "quux\nZorblat\n"
+    assert cli.main(["lexicon", "add", "Zorblat", "quux"]) == 0
+    assert (repo / "calami-lexicon.txt").read_text() == "quux\nZorblat\n"
     assert "Added to" in capsys.readouterr().out
-    assert cli.main(["words", "add", "quux"]) == 0
+    assert cli.main(["lexicon", "add", "quux"]) == 0
     assert "Already in" in capsys.readouterr().out
 
 
@@ -129,25 +129,34 @@ def test_cli_uses_the_configured_list_and_lists_all_lists(repo, capsys):
     (repo / "calami.toml").write_text('word-lists = ["docs/terms.txt", "more.txt"]\n')
     (repo / "docs").mkdir()
     (repo / "more.txt").write_text("extra\n")
-    assert cli.main(["words", "add", "widget"]) == 0
+    assert cli.main(["lexicon", "add", "widget"]) == 0
     assert (repo / "docs" / "terms.txt").read_text() == "widget\n"
     capsys.readouterr()
-    assert cli.main(["words", "list"]) == 0
+    assert cli.main(["lexicon", "list"]) == 0
     assert capsys.readouterr().out == "widget\nextra\n"
 
 
 def test_cli_remove_reports_missing_words_with_exit_1(repo, capsys):
-    (repo / "calami-words.txt").write_text("alpha\nbeta\n")
-    assert cli.main(["words", "remove", "alpha", "gamma"]) == 1
+    (repo / "calami-lexicon.txt").write_text("alpha\nbeta\n")
+    assert cli.main(["lexicon", "remove", "alpha", "gamma"]) == 1
     out, err = capsys.readouterr()
     assert "Removed from" in out and "not in" in err and "gamma" in err
-    assert (repo / "calami-words.txt").read_text() == "beta\n"
+    assert (repo / "calami-lexicon.txt").read_text() == "beta\n"
 
 
 def test_cli_file_option_and_bad_word_exit_2(tmp_path, capsys):
     target = tmp_path / "list.txt"
-    assert cli.main(["words", "add", "--file", str(target), "one"]) == 0
+    assert cli.main(["lexicon", "add", "--file", str(target), "one"]) == 0
     assert target.read_text() == "one\n"
-    assert cli.main(["words", "add", "--file", str(target), "two words"]) == 2
+    assert cli.main(["lexicon", "add", "--file", str(target), "two words"]) == 2
     assert "whitespace" in capsys.readouterr().err
-    assert cli.main(["words", "list", "--file", str(tmp_path / "nope.txt")]) == 2
+    assert cli.main(["lexicon", "list", "--file", str(tmp_path / "nope.txt")]) == 2
+
+
+def test_old_command_name_still_works_with_a_note_and_keeps_the_old_file(repo, capsys):
+    (repo / "calami-words.txt").write_text("alpha\n")
+    assert cli.main(["words", "add", "beta"]) == 0
+    out, err = capsys.readouterr()
+    assert "'calami words' is now 'calami lexicon'" in err
+    assert (repo / "calami-words.txt").read_text() == "alpha\nbeta\n"  # the one list the team has
+    assert not (repo / "calami-lexicon.txt").exists()

@@ -23,7 +23,7 @@ def _add_many(path: str, worker: int) -> None:
 
 
 def test_concurrent_adds_from_many_processes_lose_nothing(tmp_path):
-    path = tmp_path / "calami-words.txt"
+    path = tmp_path / "calami-lexicon.txt"
     path.write_text("# shared list\n\nseed\n")
     context = multiprocessing.get_context("spawn")  # fresh interpreters: no shared state
     procs = [context.Process(target=_add_many, args=(str(path), w)) for w in range(PROCESSES)]
@@ -43,7 +43,7 @@ def test_concurrent_adds_from_many_processes_lose_nothing(tmp_path):
 
 @pytest.mark.parametrize("failing", ["replace", "fsync"])
 def test_a_failure_while_writing_leaves_the_old_file_intact(tmp_path, monkeypatch, failing):
-    path = tmp_path / "calami-words.txt"
+    path = tmp_path / "calami-lexicon.txt"
     original = "# keep me\n\nalpha\nbeta\n"
     path.write_text(original)
 
@@ -125,7 +125,7 @@ def test_atomic_write_through_a_symbolic_link_keeps_the_link(tmp_path):
     real = tmp_path / "shared" / "words.txt"
     real.parent.mkdir()
     real.write_text("a\n")
-    link = tmp_path / "calami-words.txt"
+    link = tmp_path / "calami-lexicon.txt"
     link.symlink_to(real)
     wordlist.add_words(link, ["b"])
     assert link.is_symlink() and real.read_text() == "a\nb\n"

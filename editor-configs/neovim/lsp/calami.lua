@@ -19,7 +19,7 @@ local settings = {
     checkStrings = false,
     debounceMs = 150,
     modelPath = '',
-    wordList = 'calami-words.txt',
+    wordList = 'calami-lexicon.txt',
   },
 }
 
@@ -30,7 +30,7 @@ return {
     'python', 'javascript', 'javascriptreact', 'typescript', 'typescriptreact',
     'rust', 'go', 'c', 'cpp', 'java', 'sh', 'bash', 'yaml', 'toml',
   },
-  root_markers = { 'calami.toml', 'calami-words.txt', 'pyproject.toml', '.git' },
+  root_markers = { 'calami.toml', 'calami-lexicon.txt', 'calami-words.txt', 'pyproject.toml', '.git' },
   settings = settings,
   -- before_init sees the merged config, so vim.lsp.config overrides reach
   -- initializationOptions too.

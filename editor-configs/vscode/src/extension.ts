@@ -147,11 +147,13 @@ async function start(): Promise<void> {
     },
   };
 
-  // Project config and word list changes (a teammate's `git pull`) reach the
+  // Project config and lexicon changes (a teammate's `git pull`) reach the
   // server as workspace/didChangeWatchedFiles.
-  const wordList = vscode.workspace.getConfiguration("calami").get<string>("wordList") || "calami-words.txt";
-  const wordListName = wordList.split(/[\\/]/).pop() || "calami-words.txt";
-  wordListWatcher = vscode.workspace.createFileSystemWatcher(`**/{calami.toml,pyproject.toml,${wordListName}}`);
+  // calami-words.txt is the lexicon's old name, still read by the server.
+  const wordList = vscode.workspace.getConfiguration("calami").get<string>("wordList") || "calami-lexicon.txt";
+  const wordListName = wordList.split(/[\\/]/).pop() || "calami-lexicon.txt";
+  const watched = Array.from(new Set(["calami.toml", "pyproject.toml", "calami-lexicon.txt", "calami-words.txt", wordListName]));
+  wordListWatcher = vscode.workspace.createFileSystemWatcher(`**/{${watched.join(",")}}`);
 
   const clientOptions: LanguageClientOptions = {
     documentSelector: CHECKED_LANGUAGES.flatMap((language) => [

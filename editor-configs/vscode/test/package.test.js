@@ -27,7 +27,7 @@ const SERVER_SETTINGS = {
   "calami.checkStrings": { type: "boolean", default: false },
   "calami.debounceMs": { type: "integer", default: 150 },
   "calami.modelPath": { type: "string", default: "" },
-  "calami.wordList": { type: "string", default: "calami-words.txt" },
+  "calami.wordList": { type: "string", default: "calami-lexicon.txt" },
 };
 const CLIENT_SETTINGS = {
   "calami.serverPath": { type: "string", default: "calami" },
@@ -91,7 +91,7 @@ test("initializationOptions use the nested shape of workspace/configuration", ()
   const options = serverSettings((key) => defaults[key]);
   assert.deepEqual(options.severity, { nonword: "information", realword: "hint" });
   assert.equal(options.variant, "any");
-  assert.equal(options.wordList, "calami-words.txt");
+  assert.equal(options.wordList, "calami-lexicon.txt");
   assert.equal("serverPath" in options, false);
   assert.equal("severity.nonword" in options, false);
 });

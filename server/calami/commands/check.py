@@ -2,7 +2,13 @@
 
 Exit codes: 0 nothing found, 1 findings, 2 a usage, config or I/O error
 (checking goes on past an unreadable file so one report covers everything,
-but the run still ends with 2).
+but the run still ends with 2).  When nothing at all could be checked
+because of such an error (or because the files named are not UTF-8), the
+run is a failure: exit 2, and no report on stdout (no "No findings", no
+empty JSON array) except a SARIF log, whose ``executionSuccessful`` says so.
+
+Every file left out is counted in the summary by why (git-ignored, not a
+kind we read, binary, ...); ``--verbose`` names each one.
 
 With ``--jobs N`` the documents are shared among N worker processes, each
 loading the model once.  Tasks and results cross the process boundary as
@@ -36,12 +42,24 @@ def register(subparsers: "argparse._SubParsersAction[argparse.ArgumentParser]") 
     parser.add_argument("-j", "--jobs", type=int, default=1, metavar="N", help="worker processes (default: 1)")
     parser.add_argument("--color", choices=("auto", "always", "never"), default="auto", help="colour in the text report")
     parser.add_argument("--model", metavar="FILE", help="model file (default: the one shipped with calami)")
-    parser.add_argument("--max-bytes", type=int, metavar="N", help="skip files larger than N bytes (default: 2 MiB)")
+    parser.add_argument("--max-bytes", type=_byte_count, metavar="N", help="skip files larger than N bytes (default: 2 MiB)")
+    parser.add_argument("-v", "--verbose", action="store_true", help="name every file left out, and why")
     parser.add_argument("--explain", action="store_true",
                         help="after each file, say why words were flagged and which the workspace's own use accepted")
     parser.add_argument("--no-workspace", dest="workspace", action="store_false",
                         help="do not learn the checked tree's own vocabulary (every unknown word judged alone)")
     parser.set_defaults(run=run)
+
+
+def _byte_count(value: str) -> int:
+    """``--max-bytes``: a whole number of bytes, at least 1."""
+    try:
+        number = int(value)
+    except ValueError:
+        raise argparse.ArgumentTypeError(f"{value!r} is not a whole number of bytes") from None
+    if number < 1:
+        raise argparse.ArgumentTypeError(f"must be at least 1 byte, not {number}")
+    return number
 
 
 # --------------------------------------------------------------- documents
@@ -66,6 +84,7 @@ class Plan:
     tasks: list[Task] = field(default_factory=list)
     errors: list[str] = field(default_factory=list)
     projects: dict[str, Any] = field(default_factory=dict)  # root -> Project
+    skipped: list[tuple[str, str, str]] = field(default_factory=list)  # (path, category, reason) left out by the walk
 
 
 def plan(paths: list[str], kind: str | None, stdin_text: Callable[[], str]) -> Plan:
@@ -88,13 +107,15 @@ def plan(paths: list[str], kind: str | None, stdin_text: Callable[[], str]) -> P
         path = Path(raw)
         if path.is_dir():
             project = project_for(path)
-            for found in walk(path, project.selects):
+            skip = _skip_recorder(result, project, raw, path)
+            for found in walk(path, project.selects, skip):
                 found_kind = kind
                 if found_kind is None:
                     # The name usually decides; only then read a line for a shebang.
                     found_kind = detect_kind(str(found), "") or detect_kind(str(found), _first_line(found))
                     if found_kind is None:
-                        continue  # not a document kind we read
+                        skip(found, *_why_not_read(found))
+                        continue
                 result.tasks.append(Task(_display(found, raw, path), str(found.resolve()), str(project.root), found_kind))
         elif path.is_file():
             project = project_for(path)
@@ -104,6 +125,30 @@ def plan(paths: list[str], kind: str | None, stdin_text: Callable[[], str]) -> P
         else:
             result.errors.append(f"{raw}: no such file or folder")
     return result
+
+
+def _skip_recorder(result: Plan, project: Any, raw: str, folder: Path) -> Callable[[Path, str, str], None]:
+    """Records each path the walk of ``folder`` leaves out, as the user would type it."""
+    from calami.walk import EXCLUDED
+
+    def record(found: Path, category: str, reason: str) -> None:
+        if category == EXCLUDED:
+            reason = project.left_out(found) or reason
+        result.skipped.append((_display(found, raw, folder), category, reason))
+
+    return record
+
+
+def _why_not_read(found: Path) -> tuple[str, str]:
+    """(category, reason) for a file whose kind we do not read."""
+    from calami.text.formats import not_prose
+    from calami.walk import NOT_PROSE, NOT_READ
+
+    why = not_prose(found.name)
+    if why is not None:
+        return NOT_PROSE, f"{why}, not prose; name it to check it anyway"
+    ext = found.suffix.lower()
+    return NOT_READ, f"calami does not read {ext} files" if ext else "no extension or shebang calami knows"
 
 
 def _display(found: Path, raw: str, folder: Path) -> str:
@@ -156,7 +201,10 @@ class Worker:
         from calami.walk import DEFAULT_MAX_BYTES, Skipped, read_document
         from calami.text.formats import detect_kind
 
-        out: dict[str, Any] = {"display": task["display"], "findings": [], "notes": [], "skipped": None, "error": None}
+        out: dict[str, Any] = {
+            "display": task["display"], "findings": [], "notes": [], "skipped": None, "skip_category": None,
+            "error": None, "words": 0,
+        }
         text = task["text"]
         if text is None:
             path = Path(task["file"])
@@ -166,7 +214,7 @@ class Worker:
                 out["error"] = f"{task['display']}: cannot read: {exc.strerror or exc}"
                 return out
             if isinstance(read, Skipped):
-                out["skipped"] = read.reason
+                out["skipped"], out["skip_category"] = read.reason, read.category
                 return out
             text = read
         kind = task["kind"] or detect_kind(task["file"] or "-", text.split("\n", 1)[0]) or "plain"
@@ -177,11 +225,13 @@ class Worker:
         events: list[tuple[int, str, str, str]] = []
         if self.explain and hasattr(checker, "observer"):
             checker.observer = lambda at, word, rule, detail: events.append((at, word, rule, detail))
+        stats: dict[str, int] = {}
         try:
-            findings, notes = check_document(text, kind, project, checker)
+            findings, notes = check_document(text, kind, project, checker, stats)
         finally:
             if self.explain and hasattr(checker, "observer"):
                 checker.observer = None
+        out["words"] = stats["words"]
         out["notes"] = [f"{task['display']}: {note}" for note in notes]
         if self.explain:
             from calami.report.explain import explain_events, explain_findings
@@ -206,14 +256,19 @@ def is_credits_file(name: str) -> bool:
     return stem in _CREDITS
 
 
-def check_document(text: str, kind: str, project: Any, checker: Any) -> tuple[list[Any], list[str]]:
-    """Findings in one document's prose, after the project's ignore patterns cut theirs out.
+def check_document(
+    text: str, kind: str, project: Any, checker: Any, stats: dict[str, int] | None = None
+) -> tuple[list[Any], list[str]]:
+    """Findings in one document's prose, after the project's skip patterns cut theirs out.
 
     Words beside inline code are scored with a placeholder for the code as
     context (``text.formats.scoring_tokens``), as the model was trained.
+    ``stats``, if given, receives ``words``: the prose words checked (every
+    token but technical material, as the false-alarm benchmark counts them).
     """
     from calami.text.formats import ExtractOptions, extract
     from calami.text.spans import subtract
+    from calami.text.tokens import SKIP
 
     spans = extract(text, kind, ExtractOptions(strings=project.config.check_strings))
     holes, notes = project.ignore_holes(text)
@@ -221,13 +276,21 @@ def check_document(text: str, kind: str, project: Any, checker: Any) -> tuple[li
         spans = subtract(spans, holes)
     score = getattr(checker, "check_sentence", None)
     if score is None:  # a checker with only the whole-text entry point (test doubles)
+        if stats is not None:
+            from calami.text.tokens import tokenize
+
+            stats["words"] = sum(1 for t in tokenize(text, spans) if t.kind != SKIP)
         return checker.check(text, spans), notes
     from calami.text.formats.scoring_tokens import scoring_tokens
     from calami.text.tokens import sentences
 
     findings = []
+    words = 0
     for sentence in sentences(scoring_tokens(text, spans)):
+        words += sum(1 for t in sentence if t.kind != SKIP)
         findings.extend(score(sentence))
+    if stats is not None:
+        stats["words"] = words
     return findings, notes
 
 
@@ -364,6 +427,14 @@ def run(args: argparse.Namespace) -> int:
     for message in work.errors:
         print(f"calami: {message}", file=sys.stderr)
         summary.notes.append(message)
+    for project in work.projects.values():
+        for message in project.config.warnings:  # old names that still work
+            print(f"calami: note: {message}", file=sys.stderr)
+            summary.notes.append(message)
+    for display, category, reason in work.skipped:
+        summary.skip(category)
+        if args.verbose:
+            _note(None, f"{display}: skipped ({reason})", summary)
     colour = text_report.use_colour(sys.stdout, args.color)
     progress = Progress(len(work.tasks), sys.stderr)
     everything = []
@@ -379,11 +450,11 @@ def run(args: argparse.Namespace) -> int:
                 summary.notes.append(result["error"])
                 continue
             if result["skipped"]:
-                summary.files_skipped += 1
+                summary.skip(result["skip_category"])
                 _note(progress, f"{result['display']}: skipped ({result['skipped']})", summary)
                 continue
             located = _unpack_result(result)
-            summary.count(located)
+            summary.count(located, result["words"])
             if args.format == "text":
                 if located:
                     progress.close()
@@ -398,6 +469,10 @@ def run(args: argparse.Namespace) -> int:
     finally:
         progress.close()
 
+    if summary.nothing_checked_for_an_error():
+        summary.failed = True
+        if args.format != "sarif":  # a SARIF log can say the run failed; the others would only mislead
+            return 2
     if args.format == "json":
         sys.stdout.write(json_array.render(everything))
     elif args.format == "sarif":
@@ -411,6 +486,7 @@ def run(args: argparse.Namespace) -> int:
 
 
 def _note(progress: Any, message: str, summary: Any) -> None:
-    progress.close()
+    if progress is not None:
+        progress.close()
     print(f"calami: note: {message}", file=sys.stderr)
     summary.notes.append(message)

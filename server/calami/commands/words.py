@@ -1,8 +1,9 @@
-"""``calami words add|remove|list``: edit the project word list from the shell.
+"""``calami lexicon add|remove|list``: edit the project lexicon from the shell.
 
 By default the project's first word list (``word-lists`` in the config,
-``calami-words.txt`` at the project root otherwise) is edited; ``--file``
-picks another.  Edits keep comments, keep the list sorted and free of
+``calami-lexicon.txt`` at the project root otherwise, or the old
+``calami-words.txt`` if only that exists) is edited; ``--file`` picks
+another.  ``calami words`` is the command's old name and still works.  Edits keep comments, keep the list sorted and free of
 duplicates, and are written atomically under a file lock.
 """
 
@@ -12,12 +13,15 @@ import argparse
 import sys
 from pathlib import Path
 
+OLD_NAME = "words"
+
 
 def register(subparsers: "argparse._SubParsersAction[argparse.ArgumentParser]") -> None:
     parser = subparsers.add_parser(
-        "words",
-        help="add, remove or list the project's own words",
-        description="Edit the project word list: one word per line, '#' comments kept, sorted. "
+        "lexicon",
+        aliases=[OLD_NAME],
+        help="add, remove or list the words of the project lexicon",
+        description="Edit the project lexicon: one word per line, '#' comments kept, sorted. "
         "An entry in lower case accepts any capitalisation; an entry with capitals accepts only that form.",
     )
     actions = parser.add_subparsers(dest="action", metavar="ACTION", required=True)
@@ -36,6 +40,8 @@ def run(args: argparse.Namespace) -> int:
     from calami.vocab import wordlist
     from calami.vocab.project import load_project
 
+    if getattr(args, "command", None) == OLD_NAME:
+        print(f"calami: note: 'calami {OLD_NAME}' is now 'calami lexicon'; the old name still works", file=sys.stderr)
     project = None
     if args.file is None:
         project = load_project(Path.cwd())

@@ -34,6 +34,11 @@ COMMANDS = (
 MAX_ARGUMENT_CHARS = 100
 
 
+def add_to_lexicon_title(word: str) -> str:
+    """The title of the action that adds ``word`` to the project lexicon (tests import it)."""
+    return f"Add '{word}' to the project lexicon"
+
+
 class ArgumentError(ValueError):
     """A command was called with arguments it cannot accept."""
 
@@ -90,7 +95,7 @@ def code_actions(
             )
         word = finding.word
         if can_add_project_word:
-            actions.append(_command_action(f"Add '{word}' to project words", ADD_PROJECT_WORD, [doc.uri, word], diagnostic))
+            actions.append(_command_action(add_to_lexicon_title(word), ADD_PROJECT_WORD, [doc.uri, word], diagnostic))
         actions.append(_command_action(f"Add '{word}' to my words", ADD_USER_WORD, [word], diagnostic))
         actions.append(_command_action(f"Ignore '{word}' in this document", IGNORE_WORD, [doc.uri, word], diagnostic))
     return actions

@@ -141,7 +141,7 @@ def compute(doc: Document, text: str, version: int, checker: Any, settings: Sett
     if len(text) > MAX_CHECKED_CHARS:
         checked = text[:MAX_CHECKED_CHARS]
     spans = document_spans(doc, checked, settings.check_strings)
-    if project is not None and getattr(project, "ignore_patterns", None):
+    if project is not None and getattr(project, "skip_patterns", None):
         holes, warnings = project.ignore_holes(checked)
         for warning in warnings:
             log.warning("calami: %s", warning)

@@ -46,6 +46,10 @@ LANGUAGE_KINDS = {
     "shellscript": "shell",
     "yaml": "yaml",
     "toml": "toml",
+    "ruby": "ruby",
+    "css": "css",
+    "org": "org",
+    "asciidoc": "asciidoc",
     # Names some editors use instead of the LSP identifiers.
     "rst": "rst",
     "plaintex": "latex",

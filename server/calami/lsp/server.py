@@ -23,10 +23,11 @@ from calami.lsp.positions import UTF8
 from calami.lsp.settings import Settings, parse
 from calami.lsp.workspace import CheckerFactory, Projects
 from calami.vocab.profile import Profile
+from calami.vocab.project import LEXICON_NAMES
 
 log = logging.getLogger("calami.lsp")
 
-WATCHED = ("calami.toml", "pyproject.toml", "calami-words.txt")
+WATCHED = ("calami.toml", "pyproject.toml", *LEXICON_NAMES)
 
 
 class CalamiProtocol(LanguageServerProtocol):

@@ -14,6 +14,7 @@ from typing import Any, Mapping
 from lsprotocol import types
 
 from calami.findings import Thresholds
+from calami.vocab.project import DEFAULT_WORD_LIST
 
 SEVERITIES = {
     "error": types.DiagnosticSeverity.Error,
@@ -35,7 +36,7 @@ class Settings:
     check_strings: bool = False
     debounce_ms: int = 150
     model_path: str = ""
-    word_list: str = "calami-words.txt"
+    word_list: str = DEFAULT_WORD_LIST
 
     @property
     def thresholds(self) -> Thresholds:

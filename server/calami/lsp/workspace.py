@@ -92,7 +92,7 @@ class Projects:
                 self._broken.add(root)
                 self.report(f"{exc}; using defaults until the file is fixed")
                 return None
-            for problem in project.config.errors:
+            for problem in (*project.config.errors, *project.config.warnings):
                 self.report(problem)
             self._projects[root] = project
         return project
@@ -136,18 +136,21 @@ class Projects:
 
     @staticmethod
     def _editor_word_list(project: Any, settings: Settings) -> Path | None:
-        """The calami.wordList setting, used when the project config names no list of its own."""
-        from calami.vocab.project import DEFAULT_WORD_LIST
+        """The calami.wordList setting, used when the project config names no list of its own.
 
-        if settings.word_list == DEFAULT_WORD_LIST or list(project.config.word_lists) != [DEFAULT_WORD_LIST]:
+        Either lexicon file name (new or old) as the setting means "the project's default".
+        """
+        from calami.vocab.project import LEXICON_NAMES
+
+        if settings.word_list in LEXICON_NAMES or project.config.word_lists_given:
             return None
         return Path(project.root) / settings.word_list
 
     def word_list_for(self, path: Path | None, settings: Settings) -> Path:
-        """The word list "add to project words" may edit: inside the project, never elsewhere."""
+        """The word list "add to the project lexicon" may edit: inside the project, never elsewhere."""
         project = self.project_for(path)
         if project is None:
-            raise PermissionError("this document is not in a workspace folder, so it has no project word list")
+            raise PermissionError("this document is not in a workspace folder, so it has no project lexicon")
         root = Path(project.root)
         target = self._editor_word_list(project, settings) or Path(project.word_list_path)
         if not target.is_absolute():

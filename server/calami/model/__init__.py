@@ -206,6 +206,11 @@ def load(path: str | os.PathLike[str] | None = None) -> Model:
     cached = _CACHE.get(p)
     if cached is not None:
         return cached
+    given = "--model (or the modelPath setting)" if path else ("CALAMI_MODEL" if os.environ.get("CALAMI_MODEL") else None)
+    if given is not None and not p.exists():
+        # The user named this file: a typo in a path, not a broken installation.
+        raise ModelError(f"model file not found at {p} (given by {given}); check the path, "
+                         "or leave it out to use the model shipped with calami")
     header, payload = store.read_model(p)
     try:
         model = Model.from_payload(payload, header)

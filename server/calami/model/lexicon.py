@@ -8,7 +8,9 @@ the start of a sentence, but "PostgreSQL" only as listed (or in ALLCAPS).
 
 from __future__ import annotations
 
+import re
 from dataclasses import dataclass
+from functools import lru_cache
 from typing import Iterable, Sequence
 
 US = 1  # accepted in en-US
@@ -18,6 +20,34 @@ CORPUS = 8  # admitted from the training corpus, not from the word lists
 OTHER = 16  # a less common variant spelling: right only when no variant is asked for
 
 VARIANT_BITS = {"any": US | GB | OTHER, "en-US": US, "en-GB": GB}
+_VARIANT_MASK = US | GB | OTHER
+
+# The regular differences between British and American spelling, each
+# rewritten to one neutral form so that two spellings of the same word meet
+# (from general knowledge of English orthography, not from any word list):
+# -ise/-ize, -yse/-yze (and their -isation, -ised... forms), -our/-or,
+# -re/-er, doubled l before a suffix, -ogue/-og, -ence/-ense, -mme/-m,
+# -ement/-ment after a soft g, ae/oe digraphs.
+_NEUTRAL = (
+    (re.compile(r"([iy])s(?=e|es|ed|er|ers|ing|ation|ations|able)$"), r"\1z"),
+    (re.compile(r"([iy])s(?=ation|ations|ational|ed|ing|er|ers|es|e)"), r"\1z"),
+    (re.compile(r"our(?=s?$|ed$|ing$|ite|ful|less|able|er|ism|ist|ation)"), "or"),
+    (re.compile(r"(?<=[a-z]{2})([bcdfgkmnptv])re(?=s?$|d$)"), r"\1er"),
+    (re.compile(r"ll(?=ed$|ing$|er$|ers$|ation|ous)"), "l"),
+    (re.compile(r"ogue(?=s?$)"), "og"),
+    (re.compile(r"ence(?=s?$)"), "ense"),
+    (re.compile(r"mme(?=s?$)"), "m"),
+    (re.compile(r"gement(?=s?$)"), "gment"),
+    (re.compile(r"(?<=[a-z])[ao]e(?=[a-z])"), "e"),
+)
+
+
+@lru_cache(maxsize=8192)
+def variant_neutral(key: str) -> str:
+    """``key`` with the British/American differences rewritten to one form."""
+    for pattern, replacement in _NEUTRAL:
+        key = pattern.sub(replacement, key)
+    return key
 
 
 @dataclass(frozen=True, slots=True)
@@ -100,6 +130,16 @@ class Lexicon:
 
     def is_variant(self, key_id: int, variant: str) -> bool:
         return bool(self.flags[key_id] & VARIANT_BITS.get(variant, US | GB | OTHER))
+
+    def variant_pair(self, a: int, b: int) -> bool:
+        """True if keys ``a`` and ``b`` are one word in two spelling variants ("normalised", "normalized").
+
+        Such a pair is never a slip for one another: the variant setting
+        decides between them, so neither may be offered as the other's fix.
+        """
+        if a == b or (self.flags[a] & _VARIANT_MASK) == (self.flags[b] & _VARIANT_MASK):
+            return False
+        return variant_neutral(self.keys[a]) == variant_neutral(self.keys[b])
 
 
 def restore_case(typed: str, candidate_key: str, lexicon: Lexicon) -> str:

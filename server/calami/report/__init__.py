@@ -10,7 +10,7 @@ code points, end exclusive, so a finding means the same in every format.
 
 from __future__ import annotations
 
-from dataclasses import dataclass
+from dataclasses import dataclass, field
 from typing import Iterable, Sequence
 
 from calami.findings import Finding
@@ -49,6 +49,10 @@ def _line_text(text: str, index: LineIndex, line: int) -> str:
     return text[start:end].rstrip("\r\n")
 
 
+# Skip categories that mean "could not be read", not "chose not to read".
+UNREADABLE = ("not UTF-8",)
+
+
 @dataclass
 class Summary:
     """Counts for the closing line of the text report and for SARIF's invocation."""
@@ -60,13 +64,27 @@ class Summary:
     realword: int = 0
     notes: list[str] | None = None
     failed: bool = False  # an I/O or config problem happened (exit code 2)
+    words: int = 0  # prose words checked
+    skipped: dict[str, int] = field(default_factory=dict)  # why -> files (or folders) left out
 
     @property
     def findings(self) -> int:
         return self.nonword + self.realword
 
-    def count(self, located: Sequence[Located]) -> None:
+    def skip(self, category: str | None) -> None:
+        self.files_skipped += 1
+        key = category or "other"
+        self.skipped[key] = self.skipped.get(key, 0) + 1
+
+    def nothing_checked_for_an_error(self) -> bool:
+        """True when not one file was checked and an error (or an unreadable file) is why."""
+        if self.files_checked:
+            return False
+        return self.failed or any(self.skipped.get(c) for c in UNREADABLE)
+
+    def count(self, located: Sequence[Located], words: int = 0) -> None:
         self.files_checked += 1
+        self.words += words
         if located:
             self.files_with_findings += 1
         for item in located:

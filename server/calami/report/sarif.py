@@ -7,8 +7,9 @@ Choices, all from the SARIF 2.1.0 specification:
 * artifact locations are relative URIs under ``%SRCROOT%``, whose absolute
   value (the folder ``calami check`` ran in) is given in
   ``originalUriBaseIds``, so results are portable between machines;
-* two rules: ``nonword`` (not a known word) and ``realword`` (a real word
-  that context says is likely wrong); level ``warning`` when the best fix is
+* two rules, named for the literature's two kinds of spelling error:
+  ``nonword`` / ``NonWord`` (not a word of the vocabulary) and ``realword``
+  / ``RealWordSlip`` (a real word that context says is likely a slip); level ``warning`` when the best fix is
   confident, ``note`` otherwise;
 * the best suggestion of a confident finding is also offered as a ``fix``;
 * notes (skipped files, slow ignore patterns) become tool execution
@@ -31,7 +32,7 @@ SCHEMA_URI = "https://json.schemastore.org/sarif-2.1.0.json"
 RULES = [
     {
         "id": "nonword",
-        "name": "UnknownWord",
+        "name": "NonWord",
         "shortDescription": {"text": "A word that is not in the vocabulary and looks like a misspelling."},
         "fullDescription": {
             "text": "The word is not known to the model, the project word list or the user's profile, "
@@ -41,7 +42,7 @@ RULES = [
     },
     {
         "id": "realword",
-        "name": "WrongWord",
+        "name": "RealWordSlip",
         "shortDescription": {"text": "A real word that the context suggests is a slip for a similar word."},
         "fullDescription": {
             "text": "The word exists, but a word one edit away is much more likely in this context "

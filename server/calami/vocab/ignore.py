@@ -1,4 +1,4 @@
-"""The config's ignore patterns: text they match is never checked.
+"""The config's skip patterns (``skip-patterns``): text they match is never checked.
 
 Patterns are user-written regular expressions, so one of them may backtrack
 catastrophically on some document.  Each search runs with the ``regex``
@@ -44,7 +44,7 @@ def holes(
                     mine.append(match.span())
         except TimeoutError:
             warnings.append(
-                f"{pattern.origin}: ignore pattern {pattern.source!r} took longer than "
+                f"{pattern.origin}: skip pattern {pattern.source!r} took longer than "
                 f"{timeout:g}s on this document and was skipped"
             )
             continue

@@ -1,15 +1,18 @@
-"""Project configuration and project words, found from any file in the project.
+"""Project configuration and the project lexicon, found from any file in the project.
 
 The config lives in ``calami.toml`` at the project root, or in a
 ``[tool.calami]`` table of ``pyproject.toml`` (``calami.toml`` wins).  The
 project root is the nearest folder, from the starting point upwards, holding
-``calami.toml``, a ``pyproject.toml`` with ``[tool.calami]``,
-``calami-words.txt`` or ``.git``.
+``calami.toml``, a ``pyproject.toml`` with ``[tool.calami]``, the project
+lexicon (``calami-lexicon.txt``, or its old name ``calami-words.txt``) or
+``.git``.
 
 A TOML syntax error raises ``ConfigError`` (nothing sensible can be read).
 A bad *value* is recorded in ``config.errors`` as ``file:line: message`` and
 replaced by its default, so an editor keeps working; ``calami check`` treats
 any such error as fatal (exit 2) so CI does not run with a config it ignored.
+Old names that still work (``ignore-patterns``, ``calami-words.txt``) are
+recorded in ``config.warnings``: shown, never fatal.
 """
 
 from __future__ import annotations
@@ -30,7 +33,10 @@ from calami.vocab.ignore import DEFAULT_TIMEOUT, IgnorePattern, compile_pattern,
 
 CONFIG_NAME = "calami.toml"
 PYPROJECT_NAME = "pyproject.toml"
-DEFAULT_WORD_LIST = "calami-words.txt"
+DEFAULT_WORD_LIST = "calami-lexicon.txt"
+# The project lexicon's old file name: still read when the new one is
+# absent, so no team's list is lost, with a note asking to rename it.
+LEGACY_WORD_LIST = "calami-words.txt"
 VARIANTS = ("any", "en-US", "en-GB")
 
 
@@ -42,13 +48,16 @@ class ProjectConfig:
     include: list[str] = field(default_factory=list)
     exclude: list[str] = field(default_factory=list)
     word_lists: list[str] = field(default_factory=lambda: [DEFAULT_WORD_LIST])
-    ignore_patterns: list[str] = field(default_factory=list)
+    skip_patterns: list[str] = field(default_factory=list)
     check_strings: bool = False
     hint: float = Thresholds().hint
     confident: float = Thresholds().confident
     max_suggestions: int = 5
     path: Path | None = None  # the file the settings came from, if any
     errors: list[str] = field(default_factory=list)
+    warnings: list[str] = field(default_factory=list)  # old names still read: shown, not fatal
+    word_lists_given: bool = False  # word-lists was set in the file (not the default)
+    skip_patterns_key: str = "skip-patterns"  # the key they were read from (errors name it)
     source: str = field(default="", repr=False)  # config text, to name lines in errors
     table_prefix: tuple[str, ...] = field(default=(), repr=False)  # ("tool", "calami") in pyproject
 
@@ -57,8 +66,8 @@ class ProjectConfig:
         return Thresholds(self.hint, self.confident)
 
 
-class ProjectWords:
-    """The project's word lists, as an adaptation for the checker.
+class ProjectLexicon:
+    """The project lexicon (the project's word lists), as an adaptation for the checker.
 
     Case rule: an entry in lower case accepts the word in any capitalisation;
     an entry with a capital letter accepts only that exact form.  A possessive
@@ -91,14 +100,18 @@ class ProjectWords:
         return 0
 
 
+# The name other modules used before the rename; same class.
+ProjectWords = ProjectLexicon
+
+
 class Project:
-    """A project root with its config, word lists and ignore patterns."""
+    """A project root with its config, lexicon files and skip patterns."""
 
     def __init__(self, root: Path) -> None:
         self.root = root
         self.config = ProjectConfig()
-        self.words = ProjectWords()
-        self.ignore_patterns: list[IgnorePattern] = []
+        self.words = ProjectLexicon()
+        self.skip_patterns: list[IgnorePattern] = []
         self._include: list[Glob] = []
         self._exclude: list[Glob] = []
         self.reload()
@@ -110,25 +123,38 @@ class Project:
 
     @property
     def word_list_paths(self) -> list[Path]:
+        if not self.config.word_lists_given:
+            return default_lexicon_paths(self.root)
         return [self.root / p for p in self.config.word_lists] or [self.root / DEFAULT_WORD_LIST]
 
     def reload(self) -> None:
         """Read the config and word lists again (after an edit on disk)."""
         self.config = read_config(self.root)
-        self.ignore_patterns = []
-        for index, source in enumerate(self.config.ignore_patterns):
-            origin = _origin(self.config, "ignore-patterns", index)
+        self.skip_patterns = []
+        key = self.config.skip_patterns_key
+        for index, source in enumerate(self.config.skip_patterns):
+            origin = _origin(self.config, key, index)
             try:
-                self.ignore_patterns.append(compile_pattern(source, origin))
+                self.skip_patterns.append(compile_pattern(source, origin))
             except regex.error as exc:
-                self.config.errors.append(f"{origin}: ignore pattern {source!r} is not a valid regular expression: {exc}")
+                self.config.errors.append(f"{origin}: skip pattern {source!r} is not a valid regular expression: {exc}")
         self._include = [compile_glob(g) for g in self.config.include]
         self._exclude = [compile_glob(g) for g in self.config.exclude]
         entries: list[str] = []
+        legacy = self.root / LEGACY_WORD_LIST
+        if not self.config.word_lists_given and legacy in self.word_list_paths:
+            merge = "move its words into" if len(self.word_list_paths) > 1 else "rename it to"
+            self.config.warnings.append(
+                f"{legacy}: '{LEGACY_WORD_LIST}' is the old name of the project lexicon; "
+                f"it is still read, but please {merge} '{DEFAULT_WORD_LIST}'"
+            )
         for number, path in enumerate(self.word_list_paths):
             if not path.exists():
-                if number > 0:
-                    self.config.errors.append(f"{_origin(self.config, 'word-lists', number)}: word list {path} does not exist")
+                if self.config.word_lists_given:
+                    self.config.errors.append(
+                        f"{_origin(self.config, 'word-lists', number)}: word list {path} named in word-lists does not exist "
+                        "(create it, an empty file will do, or remove it from word-lists)"
+                    )
                 continue
             try:
                 parsed = wordlist.read(path)
@@ -138,27 +164,35 @@ class Project:
             for bad in wordlist.problems(parsed):
                 self.config.errors.append(f"{path}: entry {bad!r} contains whitespace and never matches")
             entries.extend(parsed.words)
-        self.words = ProjectWords(entries)
+        self.words = ProjectLexicon(entries)
 
     def ignore_holes(self, text: str, timeout: float = DEFAULT_TIMEOUT) -> tuple[list[tuple[int, int]], list[str]]:
-        """Ranges the ignore patterns cut out of ``text``, and timeout warnings."""
-        return holes(text, self.ignore_patterns, timeout)
+        """Ranges the skip patterns cut out of ``text``, and timeout warnings."""
+        return holes(text, self.skip_patterns, timeout)
 
     def selects(self, path: Path) -> bool:
-        """True if a file found by walking a folder passes include/exclude.
+        """True if a file found by walking a folder passes include/exclude."""
+        return self.left_out(path) is None
+
+    def left_out(self, path: Path) -> str | None:
+        """Why a file found by walking a folder is not checked, or None if it is.
 
         The project's own word lists are data, not prose: never selected.
         """
         resolved = path.resolve()
-        if any(resolved == p.resolve() for p in self.word_list_paths):
-            return False
+        lexicons = [*self.word_list_paths, *(self.root / name for name in LEXICON_NAMES)]
+        if any(resolved == p.resolve() for p in lexicons):
+            return "a word list of the project lexicon"
         try:
             rel = resolved.relative_to(self.root.resolve()).as_posix()
         except ValueError:
-            return True  # outside the project: its globs do not speak about it
+            return None  # outside the project: its globs do not speak about it
+        where = self.config.path.name if self.config.path else "the config"
         if self._include and not _matches_any(self._include, rel):
-            return False
-        return not _matches_any(self._exclude, rel)
+            return f"not matched by include in {where}"
+        if _matches_any(self._exclude, rel):
+            return f"matched by exclude in {where}"
+        return None
 
 
 def _matches_any(globs: Sequence[Glob], rel: str) -> bool:
@@ -178,7 +212,7 @@ def find_root(start: Path) -> Path:
     if not here.is_dir():
         here = here.parent
     for folder in (here, *here.parents):
-        if (folder / CONFIG_NAME).is_file() or (folder / wordlist_name()).is_file() or (folder / ".git").exists():
+        if (folder / CONFIG_NAME).is_file() or any((folder / n).is_file() for n in LEXICON_NAMES) or (folder / ".git").exists():
             return folder
         pyproject = folder / PYPROJECT_NAME
         if pyproject.is_file() and _has_tool_table(pyproject):
@@ -186,8 +220,19 @@ def find_root(start: Path) -> Path:
     return here
 
 
-def wordlist_name() -> str:
-    return DEFAULT_WORD_LIST
+LEXICON_NAMES = (DEFAULT_WORD_LIST, LEGACY_WORD_LIST)
+
+
+def default_lexicon_paths(root: Path) -> list[Path]:
+    """The lexicon files when the config names none, the one to edit first.
+
+    Only the old name present: it is read and edited (one list, not two).
+    Both present: the new one is edited and the old one still read.
+    """
+    new, old = root / DEFAULT_WORD_LIST, root / LEGACY_WORD_LIST
+    if not old.exists():
+        return [new]
+    return [new, old] if new.exists() else [old]
 
 
 def _has_tool_table(pyproject: Path) -> bool:
@@ -255,10 +300,25 @@ def _load_toml(path: Path) -> tuple[dict[str, Any], str]:
         raise ConfigError(f"{path}:{line}: invalid TOML: {message}") from exc
 
 
-_STRING_LISTS = {"include": "include", "exclude": "exclude", "word-lists": "word_lists", "ignore-patterns": "ignore_patterns"}
+_STRING_LISTS = {
+    "include": "include", "exclude": "exclude", "word-lists": "word_lists",
+    "skip-patterns": "skip_patterns", "ignore-patterns": "skip_patterns",
+}
+# Old key -> new key: still read, with a warning.
+RENAMED_KEYS = {"ignore-patterns": "skip-patterns"}
+KNOWN_KEYS = ("variant", "include", "exclude", "word-lists", "skip-patterns", "check-strings", "max-suggestions", "thresholds")
 
 
 def _apply(config: ProjectConfig, data: Mapping[str, Any]) -> None:
+    for old, new in RENAMED_KEYS.items():
+        if old in data and new in data:
+            _error(config, old, f"{old} is the old name of {new}; give only {new}")
+        elif old in data:
+            line = _key_line(config, old, "")
+            config.warnings.append(f"{config.path}:{line}: '{old}' is the old name of '{new}'; it still works, but please rename it")
+    config.word_lists_given = "word-lists" in data
+    if "ignore-patterns" in data and "skip-patterns" not in data:
+        config.skip_patterns_key = "ignore-patterns"
     for key, value in data.items():
         if key == "variant":
             if value in VARIANTS:
@@ -283,7 +343,7 @@ def _apply(config: ProjectConfig, data: Mapping[str, Any]) -> None:
         elif key == "thresholds":
             _apply_thresholds(config, value)
         else:
-            _error(config, key, f"unknown setting {key!r}")
+            _error(config, key, f"unknown setting {key!r}{_did_you_mean(key, (*KNOWN_KEYS, *RENAMED_KEYS))}")
     if not config.word_lists:
         _error(config, "word-lists", "word-lists must name at least one file")
         config.word_lists = [DEFAULT_WORD_LIST]
@@ -296,7 +356,8 @@ def _apply_thresholds(config: ProjectConfig, value: Any) -> None:
     hint, confident = config.hint, config.confident
     for key, number in value.items():
         if key not in ("hint", "confident"):
-            _error(config, key, f"unknown threshold {key!r} (expected 'hint' or 'confident')", table="thresholds")
+            hint_text = _did_you_mean(key, ("hint", "confident")) or " (expected 'hint' or 'confident')"
+            _error(config, key, f"unknown threshold {key!r}{hint_text}", table="thresholds")
         elif isinstance(number, bool) or not isinstance(number, (int, float)) or not 0.0 < number <= 1.0:
             _error(config, key, f"thresholds.{key} must be a number in (0, 1]", table="thresholds")
         elif key == "hint":
@@ -307,6 +368,14 @@ def _apply_thresholds(config: ProjectConfig, value: Any) -> None:
         _error(config, "hint", "thresholds.hint must not exceed thresholds.confident", table="thresholds")
         return
     config.hint, config.confident = hint, confident
+
+
+def _did_you_mean(key: str, known: Sequence[str]) -> str:
+    """A close known key for a typo ("varient" -> "variant"), or nothing."""
+    import difflib
+
+    close = difflib.get_close_matches(key.lower().replace("_", "-"), list(known), n=1, cutoff=0.6)
+    return f"; did you mean {close[0]!r}?" if close else ""
 
 
 def _error(config: ProjectConfig, key: str, message: str, table: str = "") -> None:

@@ -3,7 +3,9 @@
 One forward scan per file with a per-language "next interesting token"
 regex: comments, string and character literals (so that ``//`` or ``/*``
 inside a string is not a comment), raw strings, and for JavaScript regex
-literals.  Languages: C, C++, Java, JavaScript, TypeScript, Go, Rust.
+literals.  Languages: C, C++, Java, JavaScript, TypeScript, Go, Rust, and
+CSS (block comments only: ``//`` is not a comment there, and is common in
+``url(http://...)``).
 Doc comments (``///``, ``//!``, ``/** */``, ``/*! */``) get kind "doc".
 """
 
@@ -25,6 +27,7 @@ _TOKENS = {
     "rust": _COMMON + r"|(?P<rustraw>(?<![\w])b?r(?P<hashes>#*)\")|(?P<dq>\")|(?P<sq>')",
 }
 _TOKENS["typescript"] = _TOKENS["javascript"]
+_TOKENS["css"] = r"(?P<block>/\*)|(?P<dq>\")|(?P<sqstr>')"
 _COMPILED = {lang: regex.compile(p) for lang, p in _TOKENS.items()}
 
 _DQ_LINE = regex.compile(r"\"(?:[^\"\\\r\n]|\\(?:\r\n|[\s\S]))*\"?")  # C, Java, JS, Go
