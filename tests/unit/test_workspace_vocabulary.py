@@ -232,3 +232,26 @@ def test_function_word_swaps_need_known_neighbours_and_no_question(model, text):
 def test_other_real_word_errors_are_still_found(model, text, word, fix):
     found = [f for f in findings(Checker(model), text) if f.kind == "realword"]
     assert [(f.word, f.best) for f in found] == [(word, fix)]
+
+
+# ---------------------------------------------------------------- calami check
+
+
+def test_calami_check_learns_the_tree_and_explains(tmp_path, monkeypatch, capsys):
+    from calami import cli
+
+    (tmp_path / ".git").mkdir()
+    (tmp_path / "src").mkdir()
+    (tmp_path / "src" / "tls.py").write_text("import certifi\n\nprint(certifi.where())\n")
+    (tmp_path / "README.md").write_text("Upgrade certifi before you recieve the next release.\n")
+    monkeypatch.chdir(tmp_path)
+
+    assert cli.main(["check", "--explain", "--color", "never", "."]) == 1
+    out = capsys.readouterr().out
+    assert "README.md:1:9: why: 'certifi' accepted: the workspace uses it" in out
+    assert "README.md:1:28: why: 'recieve' flagged" in out
+    assert ">>certifi<<" not in out and ">>recieve<<" in out
+
+    assert cli.main(["check", "--no-workspace", "--format", "json", "README.md"]) == 1
+    words = {f["word"] for f in __import__("json").loads(capsys.readouterr().out)}
+    assert words == {"certifi", "recieve"}

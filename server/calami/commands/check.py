@@ -322,7 +322,7 @@ def default_checker_factory(model_path: str | None) -> Callable[[Any, str | None
             max_suggestions=config.max_suggestions,
         )
 
-    make.known_word = lambda key: key in model.lexicon.ids  # type: ignore[attr-defined]
+    make.known_word = model.lexicon.ids.__contains__  # type: ignore[attr-defined]
     return make
 
 

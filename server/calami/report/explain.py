@@ -13,7 +13,7 @@ from __future__ import annotations
 
 from typing import Any, Iterable, Sequence, TextIO
 
-from calami.findings import NONWORD
+from calami.findings import KIND_LABELS
 from calami.text.spans import LineIndex
 
 
@@ -23,13 +23,13 @@ def explain_findings(findings: Sequence[Any], usage: Any, text: str) -> list[lis
     rows = []
     for f in findings:
         line, column = index.position(f.start)
-        kind = "non-word" if f.kind == NONWORD else "real word in an unlikely place"
-        detail = f"{kind}, {f.confidence:.0%} sure it is wrong; context '{f.left or '^'} _ {f.right or '$'}'"
+        kind = KIND_LABELS.get(f.kind, f.kind)
+        detail = f"{kind}, {f.confidence:.0%} sure it is wrong; context '{f.left} _ {f.right}'"
         if f.suggestions:
             detail += f"; best fix '{f.suggestions[0].text}' ({f.suggestions[0].probability:.0%})"
             detail += ", confident" if f.confident else ""
         use = usage.use(f.word.lower()) if usage is not None else None
-        if use is not None:
+        if use is not None and use.raw > 1:
             detail += f"; the workspace has {use.describe()}, too little against a likely slip"
         rows.append([line + 1, column + 1, f.word, "flagged", detail])
     return rows

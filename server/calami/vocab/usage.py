@@ -29,7 +29,9 @@ from __future__ import annotations
 
 import re
 import threading
+from collections import Counter
 from dataclasses import dataclass
+from functools import lru_cache
 from typing import Callable, Iterable
 
 PROSE, CODE, LINK, HANDLE, META = 1, 2, 4, 8, 16
@@ -48,7 +50,8 @@ _CAMEL = re.compile(r"[a-z][A-Z]|[A-Z]{2}[a-z]")
 # Host labels that say nothing about a project.
 _HOST_NOISE = frozenset("www com org net io dev html htm php aspx readthedocs github gitlab http https".split())
 
-SOURCE_KINDS = frozenset({"python", "javascript", "typescript", "rust", "go", "c", "cpp", "java", "shell", "yaml", "toml"})
+SOURCE_KINDS = frozenset({"python", "javascript", "typescript", "rust", "go", "c", "cpp", "java", "shell", "yaml", "toml",
+                          "ruby", "css"})
 
 
 @dataclass(frozen=True, slots=True)
@@ -89,16 +92,19 @@ def _url_words(url: str) -> Iterable[str]:
                 yield from identifier_parts(chunk)
 
 
-def uses_in_text(text: str, kind: str | None) -> dict[str, int]:
-    """Word key -> source bits for each occurrence class, with raw counts folded in.
+def uses_in_text(text: str, kind: str | None, known: Callable[[str], bool] | None = None) -> dict[str, int]:
+    """Word key -> uses in ``text``, packed as ``count << 5 | source bits``.
 
-    Returns ``{key: count << 5 | sources}`` packed into one int per word, so
-    the caller keeps one dict per file.
+    One int per word keeps a file's record small.  Words ``known`` accepts
+    (the lexicon's) are left out early: most of a file's words are English.
     """
     found: dict[str, list[int]] = {}
+    skip = known or (lambda key: False)
 
     def add(word: str, source: int, times: int = 1) -> None:
         key = word.lower()
+        if skip(key):
+            return
         entry = found.get(key)
         if entry is None:
             found[key] = [times, source]
@@ -107,22 +113,29 @@ def uses_in_text(text: str, kind: str | None) -> dict[str, int]:
             entry[1] |= source
 
     rest = text
-    if "://" in text or "www." in text:
-        for url in _URL.findall(text):
+    chunks = _special_chunks(text)
+    if chunks:
+        special = " ".join(text[a:b] for a, b in chunks)
+        pieces, pos = [], 0
+        for a, b in chunks:
+            pieces.append(text[pos:a])
+            pos = b
+        pieces.append(text[pos:])
+        rest = " ".join(pieces)
+        for url in _URL.findall(special):
             for part in _url_words(url):
                 add(part, LINK)
-        rest = _URL.sub(" ", text)
-    if "@" in rest:
-        for local in _EMAIL.findall(rest):
+        special = _URL.sub(" ", special)
+        for local in _EMAIL.findall(special):
             for part in re.split(r"[.+_\-]", local):
                 for piece in _CAMEL_SPLIT.findall(part):
                     add(piece, LINK)
-        rest = _EMAIL.sub(" ", rest)
-        for handle in _HANDLE.findall(rest):
+        special = _EMAIL.sub(" ", special)
+        for handle in _HANDLE.findall(special):
             for part in re.split(r"[_\-]", handle):
                 add(part, HANDLE)
             add(handle.replace("-", "").replace("_", ""), HANDLE)
-        rest = _HANDLE.sub(" ", rest)
+        rest += " " + _HANDLE.sub(" ", special)
     if kind in SOURCE_KINDS:
         # Comments and docstrings are typed prose (where typos live); the rest is code.
         prose, code = _split_source(rest, kind)
@@ -133,33 +146,63 @@ def uses_in_text(text: str, kind: str | None) -> dict[str, int]:
     return {k: (v[0] << 5) | v[1] for k, v in found.items() if len(k) >= 3 and _LETTERS.fullmatch(k)}
 
 
-def _add_runs(add: Callable[[str, int, int], None], text: str, plain_source: int) -> None:
-    counts: dict[str, int] = {}
-    for run in _RUN.findall(text):
-        counts[run] = counts.get(run, 0) + 1
-    for run, times in counts.items():
-        if "_" in run or _CAMEL.search(run):
-            for part in identifier_parts(run):
-                add(part, CODE, times)
+_MARKERS = ("://", "www.", "@")
+
+
+def _special_chunks(text: str) -> list[tuple[int, int]]:
+    """Spans of the whitespace-delimited chunks holding a URL, an address or a handle.
+
+    Found from the markers with ``str.find`` (C loops): a regular expression
+    that must try every position of a long file is what made this slow.
+    """
+    spans = []
+    for marker in _MARKERS:
+        pos = text.find(marker)
+        while pos != -1:
+            start = max(text.rfind(" ", 0, pos), text.rfind("\n", 0, pos), text.rfind("\t", 0, pos)) + 1
+            ends = [e for e in (text.find(" ", pos), text.find("\n", pos), text.find("\t", pos)) if e != -1]
+            end = min(ends) if ends else len(text)
+            spans.append((start, end))
+            pos = text.find(marker, end)
+    if len(spans) < 2:
+        return spans
+    spans.sort()
+    merged = [spans[0]]
+    for a, b in spans[1:]:
+        if a <= merged[-1][1]:
+            merged[-1] = (merged[-1][0], max(b, merged[-1][1]))
         else:
+            merged.append((a, b))
+    return merged
+
+
+def _add_runs(add: Callable[[str, int, int], None], text: str, plain_source: int) -> None:
+    for run, times in Counter(_RUN.findall(text)).items():
+        if "_" in run or _CAMEL.search(run):
+            for part in _identifier_parts_cached(run):
+                add(part, CODE, times)
+        elif len(run) >= 3:
             add(run, plain_source, times)
+
+
+@lru_cache(maxsize=65536)
+def _identifier_parts_cached(run: str) -> tuple[str, ...]:
+    return tuple(p for p in identifier_parts(run) if len(p) >= 3)
+
+
+# Comments and docstrings, found by a regular expression per family of
+# languages: cheaper than the extractors by far, and exact enough to tell
+# typed prose from identifiers (a "#" inside a string is the rare miss).
+_HASH_COMMENTS = re.compile(r'"""[\s\S]*?"""|\'\'\'[\s\S]*?\'\'\'|#[^\n]*')
+_SLASH_COMMENTS = re.compile(r"//[^\n]*|/\*[\s\S]*?\*/")
+_COMMENTS = {"python": _HASH_COMMENTS, "shell": _HASH_COMMENTS, "yaml": _HASH_COMMENTS, "toml": _HASH_COMMENTS,
+             "ruby": _HASH_COMMENTS}
 
 
 def _split_source(text: str, kind: str) -> tuple[str, str]:
     """(comment and docstring text, everything else) of a source file."""
-    from calami.text.formats import extract
-
-    try:
-        spans = extract(text, kind)
-    except Exception:  # an extractor failure must not stop the scan
-        return "", text
-    prose, code, pos = [], [], 0
-    for span in spans:
-        code.append(text[pos:span.start])
-        prose.append(text[span.start:span.end])
-        pos = span.end
-    code.append(text[pos:])
-    return " ".join(prose), " ".join(code)
+    pattern = _COMMENTS.get(kind, _SLASH_COMMENTS)
+    return " ".join(pattern.findall(text)), pattern.sub(" ", text)
 
 
 class WorkspaceVocabulary:
@@ -188,8 +231,7 @@ class WorkspaceVocabulary:
 
     def add_text(self, name: str, text: str, kind: str | None) -> None:
         """Learn (or re-learn) one file's uses."""
-        uses = {k: v for k, v in uses_in_text(text, kind).items() if not self._known(k)}
-        self._replace(name, uses)
+        self._replace(name, uses_in_text(text, kind, self._known))
 
     def add_names(self, name: str, words: Iterable[str]) -> None:
         """Package names and dependencies from a metadata file (``name`` is its path)."""

@@ -9,14 +9,13 @@ vocabulary is still a sound one, it only accepts fewer words.
 
 from __future__ import annotations
 
-
 import time
 from dataclasses import dataclass
 from pathlib import Path
 from typing import Callable, Iterable
 
 from calami.vocab.package_names import MANIFESTS, manifest_names
-from calami.vocab.usage import WorkspaceVocabulary
+from calami.vocab.usage import SOURCE_KINDS, WorkspaceVocabulary
 
 MAX_FILE_BYTES = 256 * 1024
 MAX_FILES = 20000
@@ -88,9 +87,11 @@ def scan_tree(
         for manifest in MANIFESTS:
             if (root / manifest).is_file():
                 learn_file(vocabulary, root / manifest)
-        for path in walk(root, wanted):
-            if path.name in MANIFESTS and path.parent == root:
-                continue
+        # Documents before code: a scan cut short (or still running when the
+        # first diagnostics are due) has the prose vocabulary first.
+        paths = [p for p in walk(root, wanted) if not (p.name in MANIFESTS and p.parent == root)]
+        paths.sort(key=lambda p: file_kind(p) in SOURCE_KINDS)
+        for path in paths:
             if report.files >= max_files or cancelled() or (deadline is not None and time.monotonic() > deadline):
                 report.complete = False
                 report.seconds = time.monotonic() - start
@@ -104,6 +105,7 @@ def scan_tree(
 
 
 def project_manifests(root: Path) -> list[Path]:
+    """The manifests at a project's root (their names feed the vocabulary first)."""
     return [root / m for m in MANIFESTS if (root / m).is_file()]
 
 
