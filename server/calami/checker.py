@@ -70,10 +70,6 @@ NAMED_SOURCES = CODE | LINK | HANDLE | META
 # log factor for an unknown capitalised word where names stand (contributor
 # lists, beside @handles): our estimate, tuned on development documents.
 NAME_CONTEXT_LOG_BONUS = 7.0
-# A swap between two function words needs two known neighbours and this
-# posterior (tuned on development data: each 0.1 above the hint threshold
-# cost about 3 points of real-word recall for little precision).
-FUNCTION_SWAP_HINT = 0.5
 COMPOUND_MIN_PART = 3
 PARTICLES = frozenset({"up", "in", "on", "by"})
 COMPOUND_SPLIT_LOG_PENALTY = math.log(0.1)  # tuned on development documents
@@ -102,11 +98,6 @@ def _logsumexp(values: Sequence[float]) -> float:
     return top + math.log(sum(math.exp(v - top) for v in values))
 
 
-# Whether a sentence edge counts as a known neighbour for a function-word swap.
-EDGE_IS_KNOWN = True
-# Whether a function-word swap also needs its neighbours without punctuation
-# between (measured: it costs more recall than it saves false alarms; off).
-NEED_TIGHT = False
 # A real word capitalised inside a sentence is a proper name ("the Sane interface").
 CAPITAL_INSIDE_SKIP = True
 # Posterior a real-word slip needs in a sentence that holds code, a URL or an
@@ -118,9 +109,8 @@ QUESTION_STARTS = frozenset({"is", "are", "do", "does", "did", "can", "will", "s
 
 
 def _known_context(word_id: int, lexicon) -> bool:
-    """A listed word, or (with EDGE_IS_KNOWN) the sentence's start or end; not code or an unknown word."""
-    n = len(lexicon)
-    return word_id < n or (EDGE_IS_KNOWN and word_id <= n + 1)
+    """A listed word or the sentence's start or end; not code, a URL or an unknown word."""
+    return word_id <= len(lexicon) + 1  # ids past the lexicon: <s>, </s>, then <unk>
 
 
 def _irregular_plural(word: str) -> bool:
@@ -167,7 +157,6 @@ class Checker:
         # ("workspace", "name", "compound", "function word"): --explain and the benchmarks.
         self.observer: Callable[[int, str, str, str], None] | None = None
         self._at = 0  # offset of the word being decided (for the observer)
-        self._tight = True  # no punctuation between it and its neighbours
         self._technical = False  # the sentence holds code or identifiers
         self.variant = variant
         p = model.params
@@ -214,10 +203,6 @@ class Checker:
             left_text = units[i - 1] if i > 0 else BOS
             right_text = units[i + 1] if i + 1 < len(units) else EOS
             self._at = tok.start
-            # Punctuation between a word and its neighbour shows as a gap of more
-            # than one character: the bigram across it is weak evidence.
-            self._tight = (i == 0 or tok.start - tokens[i - 1].end <= 1) and (
-                i + 1 == len(tokens) or tokens[i + 1].start - tok.end <= 1)
             finding = self._check_word(tok, left, right, sentence_start=(i == 0), name=i in names)
             if finding is not None:
                 out.append(Finding(tok.start, tok.end, tok.text, finding[0], finding[1], finding[2], finding[3],
@@ -292,7 +277,7 @@ class Checker:
         if not core.isascii():
             raised.append(("name", NONASCII_LOG_BONUS, "letters beyond ASCII: a name or a foreign word"))
         if self.usage is not None and not look.other_variant:
-            cached = self._workspace_h0_gain(w, h0, left, right)
+            cached = self._workspace_h0_gain(w)
             if cached is not None:
                 raised.append(cached)
         for rule, gain, detail in raised:
@@ -331,7 +316,7 @@ class Checker:
                 return "workspace", f"the workspace names it: {use.describe()}"
         return None
 
-    def _workspace_h0_gain(self, w: str, h0: float, left: int, right: int):
+    def _workspace_h0_gain(self, w: str):
         """("workspace", log gain, description) from the cache model, or None.
 
         P(spelling | unknown) becomes (1 - l) P_novel + l P_cache, where
@@ -432,18 +417,19 @@ class Checker:
         best = verdict[2][0]
         if lower in FUNCTION_WORDS and is_function_swap(lower, keys[best]):
             # Two function words: the model prefers one to the other on thin
-            # evidence, most of all beside code, an unknown word or the
-            # sentence's edge.  Such a swap needs two known neighbours and a
-            # stronger posterior; the other candidates are still weighed.
-            known = _known_context(left, lexicon) and _known_context(right, lexicon) and (self._tight or not NEED_TIGHT)
+            # evidence beside code or an unknown word, and a sentence that
+            # starts "Is"/"Do"... is a question.  Such a swap needs two known
+            # neighbours (a stronger posterior on top cost about 3 points of
+            # real-word recall per 0.1 on development data, for little
+            # precision); the other candidates are still weighed.
+            known = _known_context(left, lexicon) and _known_context(right, lexicon)
             question = left == self.model.bos and lower in QUESTION_STARTS
-            if not known or question or verdict[1] < FUNCTION_SWAP_HINT:
+            if not known or question:
                 rest = [(c, h) for c, h in hyps if not is_function_swap(lower, keys[c])]
                 verdict = self._realword_verdict(word, h0, rest)
                 if verdict is None:
                     if self.observer is not None:
-                        why = ("a neighbour is not a known word" if not known else
-                               "it starts a question" if question else "the evidence is not strong enough")
+                        why = "a neighbour is not a known word" if not known else "it starts a question"
                         self.observer(self._at, word, "function word", f"a swap with '{keys[best]}': {why}")
                     return None
         found = verdict[0]
