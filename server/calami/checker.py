@@ -343,6 +343,14 @@ class Checker:
         gain = mixed - static
         return ("workspace", gain, use.describe()) if gain > 0 else None
 
+    def workspace_note(self, word: str) -> str | None:
+        """Why an unlisted word is not flagged, when the workspace's use is the reason (for the hover)."""
+        if self.usage is None or self.model.lexicon.lookup(word, self.variant).accepted:
+            return None
+        w = word.replace("’", "'").lower()
+        gain = self._workspace_h0_gain(w)
+        return None if gain is None else f"not in the word lists; accepted because the workspace uses it: {gain[2]}"
+
     def _near_frequent(self, w: str) -> bool:
         """True if a frequent lower-case listed word is one edit from ``w``."""
         lexicon, prior = self.model.lexicon, self.model.lm.prior

@@ -116,6 +116,13 @@ async def test_a_word_the_workspace_code_uses_is_not_flagged_in_its_docs(tmp_pat
                     "certifi" not in words(uri_uses), timeout=60)
         assert words(uri_uses) == {"recieve"}  # a typo stays flagged beside the project's own word
         assert words(uri_plain) == {"certifi", "recieve"}
+        # The hover says why the word was accepted (and says nothing where it was not).
+        said = await client.text_document_hover_async(types.HoverParams(
+            types.TextDocumentIdentifier(uri_uses), types.Position(line=0, character=10)))
+        assert said is not None and "workspace uses it" in said.contents.value and "2 uses" in said.contents.value
+        plain_hover = await client.text_document_hover_async(types.HoverParams(
+            types.TextDocumentIdentifier(uri_plain), types.Position(line=0, character=10)))
+        assert plain_hover is None or "workspace" not in plain_hover.contents.value
 
         # The other folder starts using the word in its code: a watched change teaches it.
         code = plain / "src" / "tls.py"

@@ -20,7 +20,7 @@ from calami.errors import CalamiError
 from calami.lsp import actions, logs
 from calami.lsp.actions import ArgumentError, check_arguments, context_argument, word_argument
 from calami.lsp.documents import ChangeError, Document, document_kind, uri_to_path
-from calami.lsp.hover import hover
+from calami.lsp.hover import hover, workspace_hover
 from calami.lsp.positions import choose_encoding
 from calami.lsp.server import WATCHED, CalamiServer, _folders, _config_supported
 
@@ -190,7 +190,8 @@ def features(server: CalamiServer) -> None:
         found = ls.scheduler.findings.get(doc.uri) if doc else None
         if doc is None or found is None or found[0] != doc.version:
             return None
-        return hover(doc, found[1], params.position, ls.settings_for(doc).max_suggestions)
+        answer = hover(doc, found[1], params.position, ls.settings_for(doc).max_suggestions)
+        return answer if answer is not None else workspace_hover(doc, ls._checker_for(doc), params.position)
 
 
 def commands(server: CalamiServer) -> None:

@@ -2,8 +2,9 @@
 
 from __future__ import annotations
 
-from typing import Sequence
+from typing import Any, Sequence
 
+import regex
 from lsprotocol import types
 
 from calami.findings import NONWORD, Finding
@@ -45,3 +46,28 @@ def hover(doc: Document, findings: Sequence[Finding], position: types.Position, 
                 range=doc.positions.range(finding.start, finding.end),
             )
     return None
+
+
+_WORD = regex.compile(r"[\p{L}\p{M}]+(?:['’][\p{L}\p{M}]+)*")
+
+
+def workspace_hover(doc: Document, checker: Any, position: types.Position) -> types.Hover | None:
+    """On an unflagged word the lexicon lacks: say that the workspace's own use accepted it."""
+    note = getattr(checker, "workspace_note", None)
+    if note is None:
+        return None
+    offset = doc.positions.offset(position)
+    text = doc.text
+    start = offset
+    while start > 0 and (text[start - 1].isalpha() or text[start - 1] in "'’"):
+        start -= 1
+    match = _WORD.match(text, start)
+    if match is None or not match.start() <= offset <= match.end():
+        return None
+    said = note(match.group())
+    if said is None:
+        return None
+    return types.Hover(
+        contents=types.MarkupContent(kind=types.MarkupKind.Markdown, value=f"**calami**: `{match.group()}` is {said}."),
+        range=doc.positions.range(match.start(), match.end()),
+    )
