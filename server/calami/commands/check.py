@@ -270,17 +270,22 @@ def check_document(
     from calami.text.spans import subtract
     from calami.text.tokens import SKIP
 
+    from calami.text import directives as file_directives
+
     spans = extract(text, kind, ExtractOptions(strings=project.config.check_strings))
     holes, notes = project.ignore_holes(text)
     if holes:
         spans = subtract(spans, holes)
+    marks = file_directives.read(text, kind)
+    spans = marks.narrow(spans)
+    notes = [*notes, *file_directives.problem_notes(text, marks)]
     score = getattr(checker, "check_sentence", None)
     if score is None:  # a checker with only the whole-text entry point (test doubles)
         if stats is not None:
             from calami.text.tokens import tokenize
 
             stats["words"] = sum(1 for t in tokenize(text, spans) if t.kind != SKIP)
-        return checker.check(text, spans), notes
+        return file_directives.drop_known(checker.check(text, spans), marks), notes
     from calami.text.formats.scoring_tokens import scoring_tokens
     from calami.text.tokens import sentences
 
@@ -291,7 +296,7 @@ def check_document(
         findings.extend(score(sentence))
     if stats is not None:
         stats["words"] = words
-    return findings, notes
+    return file_directives.drop_known(findings, marks), notes
 
 
 def _unpack_result(result: dict[str, Any]):
