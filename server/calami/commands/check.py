@@ -35,7 +35,7 @@ def register(subparsers: "argparse._SubParsersAction[argparse.ArgumentParser]") 
         description="Check the prose of files and folders (recursively, honouring .gitignore). "
         "Exit status: 0 nothing found, 1 findings, 2 usage, config or I/O error.",
     )
-    parser.add_argument("paths", nargs="+", metavar="PATH", help="file or folder to check; '-' reads standard input")
+    parser.add_argument("paths", nargs="*", metavar="PATH", help="file or folder to check; '-' reads standard input")
     parser.add_argument("--kind", help="document kind for every file (default: from name, extension or shebang)")
     parser.add_argument("--format", choices=FORMATS, default="text", help="report format (default: text)")
     parser.add_argument("--variant", choices=VARIANTS, help="spelling variant (overrides the project config)")
@@ -48,6 +48,9 @@ def register(subparsers: "argparse._SubParsersAction[argparse.ArgumentParser]") 
                         help="after each file, say why words were flagged and which the workspace's own use accepted")
     parser.add_argument("--no-workspace", dest="workspace", action="store_false",
                         help="do not learn the checked tree's own vocabulary (every unknown word judged alone)")
+    from calami.commands import check_adopt
+
+    check_adopt.add_arguments(parser)
     parser.set_defaults(run=run)
 
 
@@ -74,9 +77,11 @@ class Task:
     root: str  # project root
     kind: str | None = None  # forced kind (--kind)
     text: str | None = None  # standard input
+    digest: bool = False  # the result carries the SHA-256 of the bytes checked (--fix, --diff)
 
     def pack(self) -> dict[str, Any]:
-        return {"display": self.display, "file": self.file, "root": self.root, "kind": self.kind, "text": self.text}
+        return {"display": self.display, "file": self.file, "root": self.root, "kind": self.kind, "text": self.text,
+                "digest": self.digest}
 
 
 @dataclass
@@ -209,7 +214,12 @@ class Worker:
         if text is None:
             path = Path(task["file"])
             try:
-                read = read_document(path, self.max_bytes or DEFAULT_MAX_BYTES)
+                if task.get("digest"):
+                    from calami.fixes import read_with_digest
+
+                    read, out["digest"] = read_with_digest(path, self.max_bytes or DEFAULT_MAX_BYTES)
+                else:
+                    read = read_document(path, self.max_bytes or DEFAULT_MAX_BYTES)
             except OSError as exc:
                 out["error"] = f"{task['display']}: cannot read: {exc.strerror or exc}"
                 return out
@@ -408,6 +418,7 @@ def _results(tasks: list[Task], args: argparse.Namespace) -> Iterator[dict[str, 
 
 
 def run(args: argparse.Namespace) -> int:
+    from calami.commands import check_adopt
     from calami.errors import CalamiError
     from calami.report import Summary
     from calami.report import json_array, sarif, text as text_report
@@ -420,8 +431,17 @@ def run(args: argparse.Namespace) -> int:
         raise CalamiError(f"unknown kind {args.kind!r}; choose from {', '.join(sorted(KINDS))}")
     if args.paths.count("-") > 1:
         raise CalamiError("'-' (standard input) may be given only once")
+    check_adopt.validate(args)
 
-    work = plan(args.paths, args.kind, lambda: sys.stdin.read())
+    changes = None
+    if args.changed is not None or args.staged:
+        work, changes = check_adopt.plan_changed(args)
+    else:
+        work = plan(args.paths, args.kind, lambda: sys.stdin.read())
+    adoption = check_adopt.Adoption(args, changes)
+    if check_adopt.wants_digest(args):
+        for task in work.tasks:
+            task.digest = True
     config_errors = [e for project in work.projects.values() for e in project.config.errors]
     if config_errors:
         for message in config_errors:
@@ -458,9 +478,9 @@ def run(args: argparse.Namespace) -> int:
                 summary.skip(result["skip_category"])
                 _note(progress, f"{result['display']}: skipped ({result['skipped']})", summary)
                 continue
-            located = _unpack_result(result)
+            located = adoption.process(work.tasks[done - 1], result, _unpack_result(result))
             summary.count(located, result["words"])
-            if args.format == "text":
+            if args.format == "text" and not args.diff:
                 if located:
                     progress.close()
                     text_report.write_document(sys.stdout, located, colour)
@@ -473,12 +493,16 @@ def run(args: argparse.Namespace) -> int:
                 everything.extend(located)
     finally:
         progress.close()
+    if adoption.finish():
+        summary.failed = True
 
     if summary.nothing_checked_for_an_error():
         summary.failed = True
         if args.format != "sarif":  # a SARIF log can say the run failed; the others would only mislead
             return 2
-    if args.format == "json":
+    if args.diff:
+        pass  # the diff is the report
+    elif args.format == "json":
         sys.stdout.write(json_array.render(everything))
     elif args.format == "sarif":
         sys.stdout.write(sarif.render(everything, summary, Path.cwd()))
