@@ -107,3 +107,21 @@ def test_problem_notes_name_line_and_column():
     notes = d.problem_notes("a\n  # calami(hush-nxet)\n", d.read("a\n  # calami(hush-nxet)\n", "python"))
     assert notes == ["line 2, column 5: unknown calami directive 'hush-nxet'; did you mean 'hush-next'?"
                      " (write calami(hush-next))"]
+
+
+@pytest.mark.parametrize("text", [
+    "calami(" * 50_000,
+    "``` " * 50_000 + "\n<!-- calami(hush-next) -->\n",
+    "(hush" * 50_000,
+    "\r".join(["<!-- calami(known a) -->"] * 5_000),
+    "# calami(hush-begin)\n" * 5_000,
+])
+def test_adversarial_inputs_stay_linear(text):
+    # A quadratic scan over these would take minutes; each must just finish.
+    for kind in ("markdown", "python", "plain"):
+        d.read(text, kind)
+
+
+def test_lone_cr_line_endings():
+    text = "a\r<!-- calami(hush-next) -->\rb wrold\rc\r"
+    assert "b wrold\r" in hushed(text, "markdown")

@@ -27,6 +27,7 @@ A directive with a typo is a ``Problem``, never silently ignored.
 from __future__ import annotations
 
 import bisect
+import re
 from dataclasses import dataclass, field
 from typing import Iterable, Sequence, TypeVar
 
@@ -49,7 +50,6 @@ _PERCENT = regex.compile(r"(?<!\\)%(?P<body>[^\r\n]*)")
 _HTML = regex.compile(r"<!--(?P<body>[^\r\n]*?)-->")
 _RST = regex.compile(r"(?m)^[ \t]*\.\.[ \t]+(?P<body>[^\r\n]*)")
 _LINE = regex.compile(r"(?m)^[ \t]*(?:#[ \t]*)?(?P<body>[A-Za-z]{4,8}[ \t]*[(:][^\r\n]*)")
-_FENCE = regex.compile(r"(?m)^[ ]{0,3}(?P<fence>`{3,}|~{3,})")
 
 COMMENTS: dict[str, regex.Pattern[str]] = {
     "markdown": _HTML, "html": _HTML, "rst": _RST, "latex": _PERCENT,
@@ -64,6 +64,9 @@ COMMENTS: dict[str, regex.Pattern[str]] = {
 _CALL = regex.compile(r"\b(?P<name>[A-Za-z]{4,8})[ \t]*\((?P<args>[^()\r\n]*)(?P<close>\))?")
 _BARE = regex.compile(r"(?i)\bcalami\b[ \t]*[:=]?[ \t]*(?P<verb>[A-Za-z][\w-]*)")
 _WORD_SEP = regex.compile(r"[\s,]+")
+# A line worth parsing: our name (any case), or a call whose verb is ours.
+_NEEDLES = ("calami", "(hush", "(known")
+_TRIGGER = re.compile(r"(?i)calami|\((?:hush|known)")
 
 
 @dataclass(frozen=True, slots=True)
@@ -149,38 +152,73 @@ def comment_line(kind: str, directive: str) -> str:
 
 
 def read(text: str, kind: str) -> Directives:
-    """The directives of ``text`` read as ``kind`` (unknown kinds: lines of their own)."""
+    """The directives of ``text`` read as ``kind`` (unknown kinds: lines of their own).
+
+    Only lines holding a trigger (our name, or a call-like ``(hush`` or
+    ``(known``) are parsed, so a file without directives costs one scan at
+    C speed, whatever its size: the server does this on every edit.
+    """
     comment = COMMENTS.get(kind, _LINE)
-    if NAME not in text and "(" not in text and ":" not in text:
-        return NONE
-    fences = _fenced_ranges(text) if kind == "markdown" else []
+    fences: list[tuple[int, int]] | None = None
     found: list[tuple[int, int, str, list[str]]] = []  # (start, end, verb, words)
     problems: list[Problem] = []
-    for match in comment.finditer(text):
-        body_start = match.start("body")
-        if fences and _inside(fences, body_start):
+    anchored = comment is _LINE
+    done_until = -1
+    for at in _triggers(text):
+        if at < done_until:
             continue
-        body = match.group("body")
-        anchored = comment is _LINE
-        for call in _CALL.finditer(body):
-            if anchored and call.start() != 0:
-                break
-            _read_call(call, body_start, found, problems)
-            if anchored:
-                break
-        if not any(start >= body_start and start < body_start + len(body) for start, *_ in found) and \
-                not any(p.start >= body_start and p.start < body_start + len(body) for p in problems):
-            bare = _BARE.search(body)
-            if bare and (not anchored or bare.start() == 0):
-                verb = bare.group("verb")
-                near = _nearest(verb.lower(), VERBS, 2)
-                if near:
-                    start, end = body_start + bare.start(), body_start + bare.end()
-                    problems.append(Problem(start, end, f"calami directive without parentheses: write {directive_text(near)}",
-                                            directive_text(near)))
+        line_start = _line_start(text, at)
+        line_end = _line_end(text, at)
+        done_until = line_end
+        if kind == "markdown":
+            if fences is None:
+                fences = _fenced_ranges(text)
+            if _inside(fences, line_start):
+                continue
+        line = text[line_start:line_end]
+        for match in comment.finditer(line):
+            body_start = line_start + match.start("body")
+            body = match.group("body")
+            before = len(found) + len(problems)
+            for call in _CALL.finditer(body):
+                if anchored and call.start() != 0:
+                    break
+                _read_call(call, body_start, found, problems)
+                if anchored:
+                    break
+            if len(found) + len(problems) == before:
+                bare = _BARE.search(body)
+                if bare and (not anchored or bare.start() == 0):
+                    near = _nearest(bare.group("verb").lower(), VERBS, 2)
+                    if near:
+                        start, end = body_start + bare.start(), body_start + bare.end()
+                        problems.append(Problem(start, end, f"calami directive without parentheses: write {directive_text(near)}",
+                                                directive_text(near)))
     if not found and not problems:
         return NONE
     return _resolve(text, found, problems)
+
+
+def _triggers(text: str) -> list[int]:
+    """Offsets of our name (any case) and of "(hush" / "(known", in order."""
+    lowered = text.lower()
+    if len(lowered) != len(text):  # a character lower-cased to two: offsets would drift
+        return [m.start() for m in _TRIGGER.finditer(text)]
+    found = []
+    for needle in _NEEDLES:
+        at = lowered.find(needle)
+        while at >= 0:
+            found.append(at)
+            at = lowered.find(needle, at + 1)
+    return sorted(found)
+
+
+def _line_end(text: str, start: int) -> int:
+    n = text.find("\n", start)
+    r = text.find("\r", start, n if n >= 0 else len(text))
+    if r >= 0:
+        return r
+    return n if n >= 0 else len(text)
 
 
 def _read_call(call: "regex.Match[str]", offset: int, found: list, problems: list[Problem]) -> None:
@@ -219,65 +257,84 @@ def _read_call(call: "regex.Match[str]", offset: int, found: list, problems: lis
 
 
 def _resolve(text: str, found: list[tuple[int, int, str, list[str]]], problems: list[Problem]) -> Directives:
-    from calami.text.spans import LineIndex  # noqa: PLC0415
-
-    index = LineIndex(text)
-    starts = index.line_starts
-
-    def line_of(offset: int) -> int:
-        return bisect.bisect_right(starts, offset) - 1
-
-    def line_range(first: int, last: int) -> tuple[int, int]:
-        begin = starts[first] if first < len(starts) else len(text)
-        end = starts[last + 1] if last + 1 < len(starts) else len(text)
-        return begin, end
-
     holes: list[tuple[int, int]] = []
     known: set[str] = set()
     known_at: list[tuple[int, int]] = []
-    block: tuple[int, int] | None = None  # (offset, line) of an open hush-begin
+    block: tuple[int, int] | None = None  # (directive offset, its line's start) of an open hush-begin
     for start, end, verb, words in sorted(found):
         holes.append((start, end))  # the directive itself is never prose
-        line = line_of(start)
         if verb == KNOWN:
             known_at.append((start, end))
             for word in words:
                 known.add(word)
                 known.add(word.lower())
         elif verb == HUSH_NEXT:
-            holes.append(line_range(line + 1, line + 1))
+            after = _next_line(text, start)
+            holes.append((after, _next_line(text, after)))
         elif verb == HUSH_HERE:
-            holes.append(line_range(line, line))
+            holes.append((_line_start(text, start), _next_line(text, start)))
         elif verb == HUSH_BEGIN:
             if block is not None:
-                problems.append(Problem(start, end, f"{directive_text(HUSH_BEGIN)} inside the hushed block begun on line {block[1] + 1}"))
+                problems.append(Problem(start, end, f"{directive_text(HUSH_BEGIN)} inside the hushed block begun on "
+                                        f"line {_line_number(text, block[0])}"))
                 continue
-            block = (start, line)
+            block = (start, _line_start(text, start))
         elif verb == HUSH_END:
             if block is None:
                 problems.append(Problem(start, end, f"{directive_text(HUSH_END)} without a {directive_text(HUSH_BEGIN)} before it"))
                 continue
-            holes.append(line_range(block[1], line))
+            holes.append((block[1], _next_line(text, start)))
             block = None
     if block is not None:
         begin = block[0]
         problems.append(Problem(begin, begin + len(directive_text(HUSH_BEGIN)),
                                 f"{directive_text(HUSH_BEGIN)} has no {directive_text(HUSH_END)}; hushed to the end of the file"))
-        holes.append((line_range(block[1], block[1])[0], len(text)))
+        holes.append((block[1], len(text)))
     problems.sort(key=lambda p: p.start)
     return Directives(holes, frozenset(known), known_at, problems)
 
 
+def _line_start(text: str, at: int) -> int:
+    n = text.rfind("\n", 0, at)
+    r = text.rfind("\r", n + 1, at)  # bounded: never scans back past the last "\n"
+    return max(n, r) + 1
+
+
+def _next_line(text: str, at: int) -> int:
+    """Start of the line after the one holding ``at`` (``len(text)`` on the last line)."""
+    end = _line_end(text, at)
+    if end >= len(text):
+        return len(text)
+    return end + 2 if text.startswith("\r\n", end) else end + 1
+
+
+def _line_number(text: str, at: int) -> int:
+    return text.count("\n", 0, at) + 1  # only for a message about a rare mistake
+
+
 def _fenced_ranges(text: str) -> list[tuple[int, int]]:
     """Offsets of Markdown fenced code blocks (opening fence to closing fence)."""
+    fences = []
+    for mark in ("```", "~~~"):
+        at = text.find(mark)
+        while at >= 0:
+            start = at
+            while start > 0 and at - start < 3 and text[start - 1] == " ":
+                start -= 1
+            run_end = at
+            while run_end < len(text) and text[run_end] == mark[0]:
+                run_end += 1
+            if start == 0 or text[start - 1] in "\r\n":  # a fence opens a line (up to three spaces before)
+                fences.append((start, text[at:run_end]))
+            at = text.find(mark, run_end)
+    fences.sort()
     ranges: list[tuple[int, int]] = []
     opened: tuple[int, str] | None = None
-    for match in _FENCE.finditer(text):
-        fence = match.group("fence")
+    for start, fence in fences:
         if opened is None:
-            opened = (match.start(), fence)
+            opened = (start, fence)
         elif fence[0] == opened[1][0] and len(fence) >= len(opened[1]):
-            ranges.append((opened[0], match.end()))
+            ranges.append((opened[0], _next_line(text, start)))
             opened = None
     if opened is not None:
         ranges.append((opened[0], len(text)))
