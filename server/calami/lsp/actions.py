@@ -109,16 +109,17 @@ def code_actions(
                 )
             )
         word = finding.word
-        if can_add_project_word:
-            actions.append(_command_action(add_to_lexicon_title(word), ADD_PROJECT_WORD, [doc.uri, word], diagnostic))
-        actions.append(_command_action(f"Add '{word}' to my words", ADD_USER_WORD, [word], diagnostic))
-        actions.append(_command_action(f"Ignore '{word}' in this document", IGNORE_WORD, [doc.uri, word], diagnostic))
+        # Directives written into the file, after the fixes and before the word lists.
         if marks is None:
             marks = directive_edits.read(doc)
         for title, edit in ((SKIP_LINE_TITLE, directive_edits.skip_line(doc, finding)),
                             (ACCEPT_IN_FILE_TITLE.format(word=word), directive_edits.accept_in_file(doc, word, marks))):
             actions.append(types.CodeAction(title=title, kind=types.CodeActionKind.QuickFix, diagnostics=[diagnostic],
                                             edit=types.WorkspaceEdit(changes={doc.uri: [edit]})))
+        if can_add_project_word:
+            actions.append(_command_action(add_to_lexicon_title(word), ADD_PROJECT_WORD, [doc.uri, word], diagnostic))
+        actions.append(_command_action(f"Add '{word}' to my words", ADD_USER_WORD, [word], diagnostic))
+        actions.append(_command_action(f"Ignore '{word}' in this document", IGNORE_WORD, [doc.uri, word], diagnostic))
     return actions
 
 
