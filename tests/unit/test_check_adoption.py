@@ -297,3 +297,20 @@ def test_git_path_quoting_is_undone():
     assert unquote('"a\\tb\\"c\\\\d"') == 'a\tb"c\\d'
     assert unquote('"caf\\303\\251.md"') == "café.md"
     assert unquote("plain.md") == "plain.md"
+
+
+def test_fix_with_worker_processes(project, capsys):
+    for n in range(6):
+        (project / f"d{n}.md").write_text(f"Doc {n}: teh wrold and ofen.\n", encoding="utf-8")
+    code, out, err = run(["--fix", "--jobs", "2", "."], capsys)
+    assert code == 1 and "fixed 12 word(s) in 6 file(s)" in err
+    for n in range(6):
+        assert (project / f"d{n}.md").read_text(encoding="utf-8") == f"Doc {n}: the world and ofen.\n"
+
+
+def test_changed_followed_by_a_path_reads_it_as_a_path(repo, capsys):
+    (repo / "same.md").write_text("Untouched teh.\nNew wrold.\n", encoding="utf-8")
+    (repo / "old.md").write_text("Old teh line.\n\nAnother old wrold.\nMore teh.\n", encoding="utf-8")
+    git(repo, "checkout", "-q", "-b", "topic")
+    code, out, err = run(["--format", "json", "--changed", "same.md"], capsys)
+    assert [(item["path"], item["line"]) for item in json.loads(out)] == [("same.md", 2)]
