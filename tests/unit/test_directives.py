@@ -50,7 +50,9 @@ def test_hush_here_block_and_known():
     assert "skip me # calami(hush-here)\n" in holes
     assert "# calami(hush-begin)\nA\nB\n# calami(hush-end)\n" in holes
     assert not any("keep" in h or "after" in h for h in holes)
-    assert marks.accepts("Wrold") and marks.accepts("wrold") and marks.accepts("teh") and not marks.accepts("the")
+    assert marks.accepts("Wrold") and not marks.accepts("wrold")  # written capitalised: only so
+    assert marks.accepts("teh") and marks.accepts("Teh") and marks.accepts("TEH")  # lower case: any case
+    assert not marks.accepts("the")
 
 
 def test_crlf_lines_are_hushed_whole():

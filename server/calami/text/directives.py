@@ -84,7 +84,7 @@ class Directives:
     """What a document's directives ask for."""
 
     holes: list[tuple[int, int]] = field(default_factory=list)  # ranges not to check
-    known: frozenset[str] = frozenset()  # words accepted in this file (as written and lower-cased)
+    known: frozenset[str] = frozenset()  # words accepted in this file, as written
     known_at: list[tuple[int, int]] = field(default_factory=list)  # where the known directives are
     problems: list[Problem] = field(default_factory=list)
 
@@ -100,6 +100,7 @@ class Directives:
         return bool(self.holes or self.known or self.problems)
 
     def accepts(self, word: str) -> bool:
+        """As the project lexicon does: an entry in lower case accepts any capitalisation."""
         return word in self.known or word.lower() in self.known
 
 
@@ -265,9 +266,7 @@ def _resolve(text: str, found: list[tuple[int, int, str, list[str]]], problems: 
         holes.append((start, end))  # the directive itself is never prose
         if verb == KNOWN:
             known_at.append((start, end))
-            for word in words:
-                known.add(word)
-                known.add(word.lower())
+            known.update(words)
         elif verb == HUSH_NEXT:
             after = _next_line(text, start)
             holes.append((after, _next_line(text, after)))
