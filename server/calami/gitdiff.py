@@ -92,11 +92,18 @@ def default_base(root: Path) -> str:
 def changed_lines(cwd: Path, ref: str | None, staged: bool) -> Changes:
     """What changed since ``ref`` (None: the merge base with the default branch; with --staged: HEAD)."""
     root = repository_root(cwd)
-    if ref is None:
-        ref = "HEAD" if staged else default_base(root)
-    if ref.startswith("-"):
-        raise GitError(f"--changed: {ref!r} is not a revision")
-    git(["rev-parse", "--verify", "-q", f"{ref}^{{commit}}"], root, f"--changed: unknown revision {ref!r}")
+    if ref is None and staged:
+        ref = "HEAD"
+        try:
+            git(["rev-parse", "--verify", "-q", "HEAD^{commit}"], root, "--staged")
+        except GitError:  # the first commit: everything staged is new
+            ref = git(["hash-object", "-t", "tree", "/dev/null"], root, "--staged").strip()
+    elif ref is None:
+        ref = default_base(root)
+    else:
+        if ref.startswith("-"):
+            raise GitError(f"--changed: {ref!r} is not a revision")
+        git(["rev-parse", "--verify", "-q", f"{ref}^{{commit}}"], root, f"--changed: unknown revision {ref!r}")
     args = [*_DIFF, *(["--cached"] if staged else []), ref, "--"]
     changes = Changes(root, staged=staged)
     _parse(git(args, root, "--changed"), root, changes.lines)

@@ -314,3 +314,15 @@ def test_changed_followed_by_a_path_reads_it_as_a_path(repo, capsys):
     git(repo, "checkout", "-q", "-b", "topic")
     code, out, err = run(["--format", "json", "--changed", "same.md"], capsys)
     assert [(item["path"], item["line"]) for item in json.loads(out)] == [("same.md", 2)]
+
+
+def test_staged_before_the_first_commit(tmp_path, capsys, monkeypatch):
+    if shutil.which("git") is None:
+        pytest.skip("git not installed")
+    git(tmp_path, "init", "-q")
+    (tmp_path / "a.md").write_text("A first teh.\n", encoding="utf-8")
+    git(tmp_path, "add", "a.md")
+    monkeypatch.chdir(tmp_path)
+    code, out, err = run(["--staged", "--format", "json"], capsys)
+    assert code == 1, err
+    assert [item["word"] for item in json.loads(out)] == ["teh"]
