@@ -18,7 +18,9 @@ from __future__ import annotations
 import json
 from collections import Counter
 from pathlib import Path
-from typing import Iterable, Sequence
+from typing import Callable, Iterable, Sequence, TypeVar
+
+T = TypeVar("T")
 
 from calami.errors import CalamiError
 
@@ -44,9 +46,9 @@ class Baseline:
     def __len__(self) -> int:
         return sum(self.counts.values())
 
-    def new_only(self, file: str, items: Sequence, word_of, line_of) -> list:
+    def new_only(self, file: str, items: Sequence[T], word_of: Callable[[T], str], line_of: Callable[[T], str]) -> list[T]:
         """The items not in the baseline; each recorded entry hides as many items as its count."""
-        left = Counter()  # type: Counter[Key]
+        left: Counter[Key] = Counter()
         out = []
         for item in items:
             k = key(file, word_of(item), line_of(item))

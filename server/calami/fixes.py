@@ -17,9 +17,12 @@ import difflib
 import hashlib
 from dataclasses import dataclass
 from pathlib import Path
-from typing import Iterable, Sequence
+from typing import TYPE_CHECKING, Iterable, Sequence
 
 from calami.findings import DIRECTIVE, Finding
+
+if TYPE_CHECKING:
+    from calami.walk import Skipped
 
 BOM = b"\xef\xbb\xbf"
 
@@ -66,7 +69,7 @@ def apply(text: str, edits: Sequence[Edit]) -> str:
     return "".join(pieces)
 
 
-def read_with_digest(path: Path, max_bytes: int):
+def read_with_digest(path: Path, max_bytes: int) -> "tuple[str | Skipped, str]":
     """Like ``walk.read_document``, plus the SHA-256 of exactly the bytes that were decoded."""
     from calami.walk import decode_document, read_document
 

@@ -12,9 +12,13 @@ from __future__ import annotations
 import argparse
 import sys
 from pathlib import Path
-from typing import Any, Sequence
+from typing import TYPE_CHECKING, Any, Sequence
 
 from calami.errors import CalamiError
+
+if TYPE_CHECKING:
+    from calami.commands.check import Plan
+    from calami.gitdiff import Changes
 
 
 def add_arguments(parser: argparse.ArgumentParser) -> None:
@@ -61,7 +65,7 @@ def wants_digest(args: argparse.Namespace) -> bool:
 # --------------------------------------------------------------- --changed
 
 
-def plan_changed(args: argparse.Namespace):
+def plan_changed(args: argparse.Namespace) -> "tuple[Plan, Changes]":
     """Documents to check for --changed/--staged: changed files under the given paths, and their lines."""
     from calami import gitdiff
     from calami.commands.check import Plan, Task
