@@ -269,18 +269,18 @@ def is_credits_file(name: str) -> bool:
 def check_document(
     text: str, kind: str, project: Any, checker: Any, stats: dict[str, int] | None = None
 ) -> tuple[list[Any], list[str]]:
-    """Findings in one document's prose, after the project's skip patterns cut theirs out.
+    """Findings in one document's prose, after the project's skip patterns and the file's
+    directives (``text.directives``) cut theirs out and its known words are dropped.
 
     Words beside inline code are scored with a placeholder for the code as
     context (``text.formats.scoring_tokens``), as the model was trained.
     ``stats``, if given, receives ``words``: the prose words checked (every
     token but technical material, as the false-alarm benchmark counts them).
     """
+    from calami.text import directives as file_directives
     from calami.text.formats import ExtractOptions, extract
     from calami.text.spans import subtract
     from calami.text.tokens import SKIP
-
-    from calami.text import directives as file_directives
 
     spans = extract(text, kind, ExtractOptions(strings=project.config.check_strings))
     holes, notes = project.ignore_holes(text)
