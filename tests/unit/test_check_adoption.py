@@ -326,3 +326,12 @@ def test_staged_before_the_first_commit(tmp_path, capsys, monkeypatch):
     code, out, err = run(["--staged", "--format", "json"], capsys)
     assert code == 1, err
     assert [item["word"] for item in json.loads(out)] == ["teh"]
+
+
+def test_diff_of_standard_input(project, capsys, monkeypatch):
+    import io
+
+    monkeypatch.setattr("sys.stdin", io.StringIO("We saw teh wrold.\n"))
+    code, out, err = run(["--diff", "-"], capsys)
+    assert code == 0
+    assert out == "--- a/-\n+++ b/-\n@@ -1 +1 @@\n-We saw teh wrold.\n+We saw the world.\n"
