@@ -335,3 +335,25 @@ def test_diff_of_standard_input(project, capsys, monkeypatch):
     code, out, err = run(["--diff", "-"], capsys)
     assert code == 0
     assert out == "--- a/-\n+++ b/-\n@@ -1 +1 @@\n-We saw teh wrold.\n+We saw the world.\n"
+
+
+def test_changed_learns_the_workspace_from_the_whole_tree(repo, capsys, monkeypatch):
+    # The workspace vocabulary (lead's pre-pass) must see unchanged files too,
+    # or a changed line would be judged differently than by a full check.
+    seen = []
+
+    class LearningChecker(FakeChecker):
+        usage = None
+
+        def check(self, text, spans=None):
+            seen.append(self.usage)
+            return super().check(text, spans)
+
+    monkeypatch.setattr(check_command, "CHECKER_FACTORY", lambda model_path: LearningChecker)
+    (repo / "glossary.md").write_text("The zorblax engine. A zorblax run.\n", encoding="utf-8")
+    git(repo, "add", "glossary.md")
+    git(repo, "commit", "-q", "-m", "glossary")
+    (repo / "same.md").write_text("Untouched teh.\nThe zorblax again.\n", encoding="utf-8")
+    code, out, err = run(["--changed=HEAD", "--format", "json"], capsys)
+    assert seen and seen[0] is not None
+    assert seen[0].use("zorblax") is not None and seen[0].use("zorblax").files >= 2

@@ -90,6 +90,8 @@ class Plan:
     errors: list[str] = field(default_factory=list)
     projects: dict[str, Any] = field(default_factory=dict)  # root -> Project
     skipped: list[tuple[str, str, str]] = field(default_factory=list)  # (path, category, reason) left out by the walk
+    # Documents the workspace vocabulary learns from, when not only the checked ones (--changed).
+    learn_from: list[Task] | None = None
 
 
 def plan(paths: list[str], kind: str | None, stdin_text: Callable[[], str]) -> Plan:
@@ -388,13 +390,14 @@ def _work(packed: bytes) -> bytes:
     return msgpack.packb(_WORKER.run(msgpack.unpackb(packed)))
 
 
-def _results(tasks: list[Task], args: argparse.Namespace) -> Iterator[dict[str, Any]]:
+def _results(tasks: list[Task], args: argparse.Namespace, learn_from: list[Task] | None = None) -> Iterator[dict[str, Any]]:
     """Results in task order, from this process or from a pool."""
     jobs = max(1, min(args.jobs, len(tasks)))
     factory = CHECKER_FACTORY(args.model)  # loads the model here, so forked workers share it
     _VOCABULARIES.clear()
     if getattr(args, "workspace", True):
-        _VOCABULARIES.update(learn_workspaces(tasks, getattr(factory, "known_word", None), args.max_bytes))
+        learnt = tasks if learn_from is None else learn_from
+        _VOCABULARIES.update(learn_workspaces(learnt, getattr(factory, "known_word", None), args.max_bytes))
     explain = getattr(args, "explain", False)
     if jobs == 1:
         worker = Worker(factory, args.variant, args.max_bytes, explain)
@@ -464,7 +467,7 @@ def run(args: argparse.Namespace) -> int:
     progress = Progress(len(work.tasks), sys.stderr)
     everything = []
     try:
-        for done, result in enumerate(_results(work.tasks, args), start=1):
+        for done, result in enumerate(_results(work.tasks, args, work.learn_from), start=1):
             progress.update(done, result["display"])
             for note in result["notes"]:
                 _note(progress, note, summary)

@@ -105,7 +105,36 @@ def plan_changed(args: argparse.Namespace) -> "tuple[Plan, Changes]":
         display = _display(path, cwd)
         text = gitdiff.staged_text(changes.root, path) if changes.staged else None
         result.tasks.append(Task(display, str(path), str(project.root), kind, text))
+    if getattr(args, "workspace", True):
+        result.learn_from = _whole_tree(changes, scopes, result.tasks, args.kind)
     return result, changes
+
+
+def _whole_tree(changes: Any, scopes: list[Path], checked: list[Any], kind: str | None) -> list[Any]:
+    """Every tracked document under the scopes: the workspace vocabulary learns from all of them,
+    so a changed line is judged as a full check would judge it.  ``git ls-files`` lists them
+    faster than a walk; the kind comes from the name alone."""
+    from calami import gitdiff
+    from calami.commands.check import Task
+    from calami.text.formats import detect_kind
+
+    checked_files = {task.file: task for task in checked}
+    roots = sorted({Path(task.root) for task in checked}, key=lambda r: len(r.parts), reverse=True)
+    out = list(checked)
+    if not roots:
+        return out  # nothing to check, nothing to learn for
+    listed = gitdiff.git(["ls-files", "-z"], changes.root, "--changed")
+    for name in listed.split("\0"):
+        if not name:
+            continue
+        path = changes.root / name
+        if str(path) in checked_files or not any(path == s or s in path.parents for s in scopes):
+            continue
+        found_kind = kind or detect_kind(name, "")
+        root = next((r for r in roots if r == path.parent or r in path.parents), None)
+        if found_kind is not None and root is not None:  # only projects with a checked file need a vocabulary
+            out.append(Task(name, str(path), str(root), found_kind))
+    return out
 
 
 def _first_line(path: Path) -> str:
