@@ -11,6 +11,7 @@ from dataclasses import dataclass
 
 NONWORD = "nonword"
 REALWORD = "realword"
+DIRECTIVE = "directive"  # an in-file directive that could not be read (calami.text.directives)
 
 # What people read for each kind (text report, summary, SARIF rule names):
 # the literature's non-word / real-word error distinction (Kukich 1992).
@@ -34,6 +35,7 @@ class Finding:
     confident: bool = False  # the best fix is safe to apply without reading
     left: str = ""  # context words the decision used (for hover text)
     right: str = ""
+    note: str = ""  # what is wrong, for DIRECTIVE findings
 
     @property
     def best(self) -> str | None:
@@ -43,7 +45,7 @@ class Finding:
         """The same finding moved by ``delta`` code points (cache reuse)."""
         return Finding(
             self.start + delta, self.end + delta, self.word, self.kind, self.confidence,
-            self.suggestions, self.confident, self.left, self.right,
+            self.suggestions, self.confident, self.left, self.right, self.note,
         )
 
 

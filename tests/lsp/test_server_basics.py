@@ -5,6 +5,7 @@ from __future__ import annotations
 import pytest
 from lsprotocol import types
 
+from calami.lsp import actions
 from calami.lsp.actions import add_to_lexicon_title
 from session import capabilities, edit, open_doc, published_for, start, stop, until
 
@@ -94,7 +95,8 @@ async def test_code_actions_rank_fixes_and_offer_word_commands(tmp_path, folder)
         )
         titles = [a.title for a in result]
         assert titles == [
-            "Replace with 'the'", "Replace with 'ten'", add_to_lexicon_title("teh"),
+            "Replace with 'the'", "Replace with 'ten'",
+            actions.SKIP_LINE_TITLE, actions.ACCEPT_IN_FILE_TITLE.format(word="teh"), add_to_lexicon_title("teh"),
             "Add 'teh' to my words", "Ignore 'teh' in this document",
         ]
         assert result[0].is_preferred and not result[1].is_preferred

@@ -185,3 +185,62 @@ def test_reused_wire_diagnostics_equal_fresh_ones(initial, steps, encoding):
             continue  # sometimes two edits between publishes
         findings = compute(doc, doc.text, n, checker, settings)
         assert wire_diagnostics(doc, findings, settings) == [to_wire(f, doc, settings) for f in findings]
+
+
+# In-file directives (calami.text.directives): hushed lines are holes in the
+# spans and known words a filter after scoring, so the cache stays exact.
+DIRECTIVE_PIECES = PIECES + [
+    "<!-- calami(hush-next) -->", "<!-- calami(hush-here) -->", "<!-- calami(known teh) -->",
+    "<!-- calami(hush-begin) -->", "<!-- calami(hush-end) -->", "<!-- calami(hush-nxet) -->",
+    "calami(known wrold)", "calami(hush-next)", "# calami(hush-next)",
+]
+directive_text = st.lists(st.sampled_from(DIRECTIVE_PIECES), max_size=12).map("".join)
+
+
+@st.composite
+def directive_edits(draw):
+    a, b = draw(st.floats(0, 1)), draw(st.floats(0, 1))
+    kind = draw(st.sampled_from(["insert", "delete", "replace"]))
+    text = "" if kind == "delete" else draw(directive_text)
+    if kind == "insert":
+        b = a
+    return min(a, b), max(a, b), text
+
+
+def full_check_with_directives(text: str, kind: str, checker) -> list:
+    """From scratch: read the directives, cut their holes, score everything, filter."""
+    from calami.lsp.diagnostics import directive_findings
+    from calami.text import directives
+
+    marks = directives.read(text, kind)
+    spans = marks.narrow(prose_spans(text, kind))
+    found = [f for sentence in sentences(scoring_tokens(text, spans)) for f in checker.check_sentence(sentence)]
+    found = [f for f in found if not marks.accepts(f.word)]
+    return sorted(found + directive_findings(text, marks), key=lambda f: (f.start, f.end))
+
+
+@settings(max_examples=150, deadline=None)
+@given(initial=directive_text, steps=st.lists(directive_edits(), min_size=1, max_size=12),
+       kind=st.sampled_from(["markdown", "plain"]))
+def test_findings_with_directives_equal_a_full_recheck(initial, steps, kind):
+    from calami.lsp.diagnostics import compute
+    from calami.lsp.settings import Settings
+
+    checker, config = FakeChecker(), Settings()
+    doc = Document("file:///t.md", kind, 1, initial, UTF16, kind)
+    compute(doc, doc.text, 1, checker, config)
+    for n, (a, b, new) in enumerate(steps, start=2):
+        positions = PositionMap(doc.text, UTF16)
+        rng = types.Range(positions.position(int(a * len(doc.text))), positions.position(int(b * len(doc.text))))
+        doc.apply([types.TextDocumentContentChangePartial(range=rng, text=new)], n)
+        assert compute(doc, doc.text, n, checker, config) == full_check_with_directives(doc.text, kind, checker)
+
+
+def test_directives_hush_and_accept_in_the_server_path():
+    from calami.lsp.diagnostics import compute
+    from calami.lsp.settings import Settings
+
+    text = "We came teh way.\n<!-- calami(hush-next) -->\nA wrold here.\nAnd recieve it.\n<!-- calami(known recieve) -->\n"
+    doc = Document("file:///t.md", "markdown", 1, text, UTF16, "markdown")
+    words = [f.word for f in compute(doc, text, 1, FakeChecker(), Settings())]
+    assert words == ["teh"]

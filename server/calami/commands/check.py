@@ -35,7 +35,7 @@ def register(subparsers: "argparse._SubParsersAction[argparse.ArgumentParser]") 
         description="Check the prose of files and folders (recursively, honouring .gitignore). "
         "Exit status: 0 nothing found, 1 findings, 2 usage, config or I/O error.",
     )
-    parser.add_argument("paths", nargs="+", metavar="PATH", help="file or folder to check; '-' reads standard input")
+    parser.add_argument("paths", nargs="*", metavar="PATH", help="file or folder to check; '-' reads standard input")
     parser.add_argument("--kind", help="document kind for every file (default: from name, extension or shebang)")
     parser.add_argument("--format", choices=FORMATS, default="text", help="report format (default: text)")
     parser.add_argument("--variant", choices=VARIANTS, help="spelling variant (overrides the project config)")
@@ -48,6 +48,9 @@ def register(subparsers: "argparse._SubParsersAction[argparse.ArgumentParser]") 
                         help="after each file, say why words were flagged and which the workspace's own use accepted")
     parser.add_argument("--no-workspace", dest="workspace", action="store_false",
                         help="do not learn the checked tree's own vocabulary (every unknown word judged alone)")
+    from calami.commands import check_adopt
+
+    check_adopt.add_arguments(parser)
     parser.set_defaults(run=run)
 
 
@@ -74,9 +77,11 @@ class Task:
     root: str  # project root
     kind: str | None = None  # forced kind (--kind)
     text: str | None = None  # standard input
+    digest: bool = False  # the result carries the SHA-256 of the bytes checked (--fix, --diff)
 
     def pack(self) -> dict[str, Any]:
-        return {"display": self.display, "file": self.file, "root": self.root, "kind": self.kind, "text": self.text}
+        return {"display": self.display, "file": self.file, "root": self.root, "kind": self.kind, "text": self.text,
+                "digest": self.digest}
 
 
 @dataclass
@@ -85,6 +90,8 @@ class Plan:
     errors: list[str] = field(default_factory=list)
     projects: dict[str, Any] = field(default_factory=dict)  # root -> Project
     skipped: list[tuple[str, str, str]] = field(default_factory=list)  # (path, category, reason) left out by the walk
+    # Documents the workspace vocabulary learns from, when not only the checked ones (--changed).
+    learn_from: list[Task] | None = None
 
 
 def plan(paths: list[str], kind: str | None, stdin_text: Callable[[], str]) -> Plan:
@@ -209,7 +216,12 @@ class Worker:
         if text is None:
             path = Path(task["file"])
             try:
-                read = read_document(path, self.max_bytes or DEFAULT_MAX_BYTES)
+                if task.get("digest"):
+                    from calami.fixes import read_with_digest
+
+                    read, out["digest"] = read_with_digest(path, self.max_bytes or DEFAULT_MAX_BYTES)
+                else:
+                    read = read_document(path, self.max_bytes or DEFAULT_MAX_BYTES)
             except OSError as exc:
                 out["error"] = f"{task['display']}: cannot read: {exc.strerror or exc}"
                 return out
@@ -259,13 +271,15 @@ def is_credits_file(name: str) -> bool:
 def check_document(
     text: str, kind: str, project: Any, checker: Any, stats: dict[str, int] | None = None
 ) -> tuple[list[Any], list[str]]:
-    """Findings in one document's prose, after the project's skip patterns cut theirs out.
+    """Findings in one document's prose, after the project's skip patterns and the file's
+    directives (``text.directives``) cut theirs out and its known words are dropped.
 
     Words beside inline code are scored with a placeholder for the code as
     context (``text.formats.scoring_tokens``), as the model was trained.
     ``stats``, if given, receives ``words``: the prose words checked (every
     token but technical material, as the false-alarm benchmark counts them).
     """
+    from calami.text import directives as file_directives
     from calami.text.formats import ExtractOptions, extract
     from calami.text.spans import subtract
     from calami.text.tokens import SKIP
@@ -274,13 +288,16 @@ def check_document(
     holes, notes = project.ignore_holes(text)
     if holes:
         spans = subtract(spans, holes)
+    marks = file_directives.read(text, kind)
+    spans = marks.narrow(spans)
+    notes = [*notes, *file_directives.problem_notes(text, marks)]
     score = getattr(checker, "check_sentence", None)
     if score is None:  # a checker with only the whole-text entry point (test doubles)
         if stats is not None:
             from calami.text.tokens import tokenize
 
             stats["words"] = sum(1 for t in tokenize(text, spans) if t.kind != SKIP)
-        return checker.check(text, spans), notes
+        return file_directives.drop_known(checker.check(text, spans), marks), notes
     from calami.text.formats.scoring_tokens import scoring_tokens
     from calami.text.tokens import sentences
 
@@ -291,7 +308,7 @@ def check_document(
         findings.extend(score(sentence))
     if stats is not None:
         stats["words"] = words
-    return findings, notes
+    return file_directives.drop_known(findings, marks), notes
 
 
 def _unpack_result(result: dict[str, Any]):
@@ -373,13 +390,14 @@ def _work(packed: bytes) -> bytes:
     return msgpack.packb(_WORKER.run(msgpack.unpackb(packed)))
 
 
-def _results(tasks: list[Task], args: argparse.Namespace) -> Iterator[dict[str, Any]]:
+def _results(tasks: list[Task], args: argparse.Namespace, learn_from: list[Task] | None = None) -> Iterator[dict[str, Any]]:
     """Results in task order, from this process or from a pool."""
     jobs = max(1, min(args.jobs, len(tasks)))
     factory = CHECKER_FACTORY(args.model)  # loads the model here, so forked workers share it
     _VOCABULARIES.clear()
     if getattr(args, "workspace", True):
-        _VOCABULARIES.update(learn_workspaces(tasks, getattr(factory, "known_word", None), args.max_bytes))
+        learnt = tasks if learn_from is None else learn_from
+        _VOCABULARIES.update(learn_workspaces(learnt, getattr(factory, "known_word", None), args.max_bytes))
     explain = getattr(args, "explain", False)
     if jobs == 1:
         worker = Worker(factory, args.variant, args.max_bytes, explain)
@@ -403,6 +421,7 @@ def _results(tasks: list[Task], args: argparse.Namespace) -> Iterator[dict[str, 
 
 
 def run(args: argparse.Namespace) -> int:
+    from calami.commands import check_adopt
     from calami.errors import CalamiError
     from calami.report import Summary
     from calami.report import json_array, sarif, text as text_report
@@ -415,8 +434,17 @@ def run(args: argparse.Namespace) -> int:
         raise CalamiError(f"unknown kind {args.kind!r}; choose from {', '.join(sorted(KINDS))}")
     if args.paths.count("-") > 1:
         raise CalamiError("'-' (standard input) may be given only once")
+    check_adopt.validate(args)
 
-    work = plan(args.paths, args.kind, lambda: sys.stdin.read())
+    changes = None
+    if args.changed is not None or args.staged:
+        work, changes = check_adopt.plan_changed(args)
+    else:
+        work = plan(args.paths, args.kind, lambda: sys.stdin.read())
+    adoption = check_adopt.Adoption(args, changes)
+    if check_adopt.wants_digest(args):
+        for task in work.tasks:
+            task.digest = True
     config_errors = [e for project in work.projects.values() for e in project.config.errors]
     if config_errors:
         for message in config_errors:
@@ -439,7 +467,7 @@ def run(args: argparse.Namespace) -> int:
     progress = Progress(len(work.tasks), sys.stderr)
     everything = []
     try:
-        for done, result in enumerate(_results(work.tasks, args), start=1):
+        for done, result in enumerate(_results(work.tasks, args, work.learn_from), start=1):
             progress.update(done, result["display"])
             for note in result["notes"]:
                 _note(progress, note, summary)
@@ -453,9 +481,9 @@ def run(args: argparse.Namespace) -> int:
                 summary.skip(result["skip_category"])
                 _note(progress, f"{result['display']}: skipped ({result['skipped']})", summary)
                 continue
-            located = _unpack_result(result)
+            located = adoption.process(work.tasks[done - 1], result, _unpack_result(result))
             summary.count(located, result["words"])
-            if args.format == "text":
+            if args.format == "text" and not args.diff:
                 if located:
                     progress.close()
                     text_report.write_document(sys.stdout, located, colour)
@@ -468,12 +496,16 @@ def run(args: argparse.Namespace) -> int:
                 everything.extend(located)
     finally:
         progress.close()
+    if adoption.finish():
+        summary.failed = True
 
     if summary.nothing_checked_for_an_error():
         summary.failed = True
         if args.format != "sarif":  # a SARIF log can say the run failed; the others would only mislead
             return 2
-    if args.format == "json":
+    if args.diff:
+        pass  # the diff is the report
+    elif args.format == "json":
         sys.stdout.write(json_array.render(everything))
     elif args.format == "sarif":
         sys.stdout.write(sarif.render(everything, summary, Path.cwd()))

@@ -13,7 +13,7 @@ from typing import Any, Sequence
 
 from lsprotocol import types
 
-from calami.findings import Finding
+from calami.findings import DIRECTIVE, Finding
 from calami.lsp.diagnostics import SOURCE, to_diagnostic
 from calami.lsp.documents import Document
 from calami.lsp.settings import Settings
@@ -32,6 +32,11 @@ COMMANDS = (
 )
 
 MAX_ARGUMENT_CHARS = 100
+
+# Titles of the directive-writing quick fixes (tests import them from here).
+SKIP_LINE_TITLE = "Skip this line (calami directive)"
+ACCEPT_IN_FILE_TITLE = "Accept '{word}' in this file (calami directive)"
+FIX_DIRECTIVE_TITLE = "Correct the directive to '{fix}'"
 
 
 def add_to_lexicon_title(word: str) -> str:
@@ -74,9 +79,19 @@ def code_actions(
     doc: Document, findings: Sequence[Finding], rng: types.Range, settings: Settings, can_add_project_word: bool
 ) -> list[types.CodeAction]:
     """Actions for the findings under ``rng``: ranked fixes first, the best preferred."""
+    from calami.lsp import directive_edits
+
     actions: list[types.CodeAction] = []
+    marks = None
     for finding in findings_at(findings, doc, rng):
         diagnostic = to_diagnostic(finding, doc, settings)
+        if finding.kind == DIRECTIVE:
+            if finding.best:
+                edit = types.WorkspaceEdit(changes={doc.uri: [types.TextEdit(diagnostic.range, finding.best)]})
+                actions.append(types.CodeAction(title=FIX_DIRECTIVE_TITLE.format(fix=finding.best),
+                                                kind=types.CodeActionKind.QuickFix, diagnostics=[diagnostic],
+                                                edit=edit, is_preferred=True))
+            continue
         for rank, suggestion in enumerate(finding.suggestions[: settings.max_suggestions]):
             edit = types.WorkspaceEdit(changes={doc.uri: [types.TextEdit(diagnostic.range, suggestion.text)]})
             actions.append(
@@ -94,6 +109,13 @@ def code_actions(
                 )
             )
         word = finding.word
+        # Directives written into the file, after the fixes and before the word lists.
+        if marks is None:
+            marks = directive_edits.read(doc)
+        for title, edit in ((SKIP_LINE_TITLE, directive_edits.skip_line(doc, finding)),
+                            (ACCEPT_IN_FILE_TITLE.format(word=word), directive_edits.accept_in_file(doc, word, marks))):
+            actions.append(types.CodeAction(title=title, kind=types.CodeActionKind.QuickFix, diagnostics=[diagnostic],
+                                            edit=types.WorkspaceEdit(changes={doc.uri: [edit]})))
         if can_add_project_word:
             actions.append(_command_action(add_to_lexicon_title(word), ADD_PROJECT_WORD, [doc.uri, word], diagnostic))
         actions.append(_command_action(f"Add '{word}' to my words", ADD_USER_WORD, [word], diagnostic))

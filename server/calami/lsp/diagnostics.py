@@ -17,21 +17,24 @@ from typing import Any, Callable
 
 from lsprotocol import types
 
-from calami.findings import NONWORD, Finding
+from calami.findings import DIRECTIVE, NONWORD, Finding, Suggestion
 from calami.lsp.documents import MAX_CHECKED_CHARS, Document, document_spans
 from calami.lsp.findings_cache import Cancelled
 from calami.lsp.settings import Settings
+from calami.text import directives as file_directives
 from calami.text.spans import subtract
 
 log = logging.getLogger("calami.lsp")
 
 SOURCE = "calami"
-CODES = {NONWORD: "calami.nonword", "realword": "calami.realword"}
+CODES = {NONWORD: "calami.nonword", "realword": "calami.realword", DIRECTIVE: "calami.directive"}
 
 
 def message(finding: Finding) -> str:
     """One line naming the word and the best fix (our own wording)."""
     best = finding.best
+    if finding.kind == DIRECTIVE:
+        return f"{finding.note}; write '{best}'" if best and best not in finding.note else finding.note
     if finding.kind == NONWORD:
         text = f"'{finding.word}' looks misspelt"
     else:
@@ -39,11 +42,18 @@ def message(finding: Finding) -> str:
     return f"{text}; best fix: '{best}'" if best else text
 
 
+def severity(finding: Finding, settings: Settings) -> types.DiagnosticSeverity:
+    """A directive calami cannot read is always a warning: it hides nothing until fixed."""
+    if finding.kind == DIRECTIVE:
+        return types.DiagnosticSeverity.Warning
+    return settings.severity(finding.kind)
+
+
 def to_diagnostic(finding: Finding, doc: Document, settings: Settings) -> types.Diagnostic:
     return types.Diagnostic(
         range=doc.positions.range(finding.start, finding.end),
         message=message(finding),
-        severity=settings.severity(finding.kind),
+        severity=severity(finding, settings),
         code=CODES.get(finding.kind, f"calami.{finding.kind}"),
         source=SOURCE,
         data={
@@ -65,7 +75,7 @@ def to_wire(finding: Finding, doc: Document, settings: Settings) -> dict[str, An
         "range": {"start": {"line": start.line, "character": start.character},
                   "end": {"line": end.line, "character": end.character}},
         "message": message(finding),
-        "severity": int(settings.severity(finding.kind)),
+        "severity": int(severity(finding, settings)),
         "code": CODES.get(finding.kind, f"calami.{finding.kind}"),
         "source": SOURCE,
         "data": {
@@ -146,8 +156,24 @@ def compute(doc: Document, text: str, version: int, checker: Any, settings: Sett
         for warning in warnings:
             log.warning("calami: %s", warning)
         spans = subtract(spans, holes)
+    marks = file_directives.read(checked, doc.kind)
+    spans = marks.narrow(spans)
     findings = doc.cache.findings(checked, spans, checker, cancelled=lambda: doc.version != version)
-    return [f for f in findings if f.word not in doc.ignored and f.word.lower() not in doc.ignored]
+    findings = [f for f in findings if f.word not in doc.ignored and f.word.lower() not in doc.ignored]
+    findings = file_directives.drop_known(findings, marks)
+    if marks.problems:
+        findings = sorted([*findings, *directive_findings(checked, marks)], key=lambda f: (f.start, f.end))
+    return findings
+
+
+def directive_findings(text: str, marks: file_directives.Directives) -> list[Finding]:
+    """A directive calami could not read, as a finding of its own (shown as a diagnostic)."""
+    out = []
+    for problem in marks.problems:
+        fixes = (Suggestion(problem.fix, 1.0),) if problem.fix else ()
+        out.append(Finding(problem.start, problem.end, text[problem.start:problem.end], DIRECTIVE, 1.0, fixes,
+                           note=problem.message))
+    return out
 
 
 class Scheduler:

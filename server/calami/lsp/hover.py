@@ -7,7 +7,7 @@ from typing import Any, Sequence
 import regex
 from lsprotocol import types
 
-from calami.findings import NONWORD, Finding
+from calami.findings import DIRECTIVE, NONWORD, Finding
 from calami.lsp.documents import Document
 
 
@@ -15,6 +15,9 @@ def explain(finding: Finding, limit: int) -> str:
     """Markdown text: the verdict, the ranked fixes with probabilities, the context."""
     lines = []
     percent = round(finding.confidence * 100)
+    if finding.kind == DIRECTIVE:
+        fix = f"\n\nProbably meant: `{finding.best}`" if finding.best else ""
+        return f"**calami**: this directive is not read: {finding.note}.{fix}"
     if finding.kind == NONWORD:
         lines.append(f"**calami**: `{finding.word}` is probably a misspelling ({percent}% sure).")
     else:
