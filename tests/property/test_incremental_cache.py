@@ -5,6 +5,7 @@ from __future__ import annotations
 import sys
 from pathlib import Path
 
+import pytest
 from hypothesis import given, settings
 from hypothesis import strategies as st
 from lsprotocol import types
@@ -111,19 +112,6 @@ def _real_checker():
     return _REAL[0]
 
 
-@settings(max_examples=40, deadline=None)
-@given(initial=piece_text, steps=st.lists(edits(), min_size=1, max_size=8), kind=st.sampled_from(["markdown", "plain"]))
-def test_cached_findings_equal_a_full_check_with_the_real_checker(initial, steps, kind):
-    checker = _real_checker()
-    doc = Document("file:///t.md", kind, 1, initial, UTF16, kind)
-    for n, (a, b, new) in enumerate(steps, start=2):
-        positions = PositionMap(doc.text, UTF16)
-        rng = types.Range(positions.position(int(a * len(doc.text))), positions.position(int(b * len(doc.text))))
-        doc.apply([types.TextDocumentContentChangePartial(range=rng, text=new)], n)
-        cached = doc.cache.findings(doc.text, prose_spans(doc.text, kind), checker)
-        assert cached == full_check(doc.text, kind, checker)
-
-
 _WITH_VOCABULARY: list = []
 
 
@@ -141,10 +129,12 @@ def _checker_with_vocabulary():
     return _WITH_VOCABULARY[0]
 
 
+@pytest.mark.parametrize("make_checker", [_real_checker, _checker_with_vocabulary], ids=["alone", "workspace"])
 @settings(max_examples=40, deadline=None)
 @given(initial=piece_text, steps=st.lists(edits(), min_size=1, max_size=8), kind=st.sampled_from(["markdown", "plain"]))
-def test_cached_findings_equal_a_full_check_with_a_workspace_vocabulary(initial, steps, kind):
-    checker = _checker_with_vocabulary()
+def test_cached_findings_equal_a_full_check_with_the_real_checker(make_checker, initial, steps, kind):
+    """The real checker, alone and with a workspace vocabulary in play."""
+    checker = make_checker()
     doc = Document("file:///t.md", kind, 1, initial, UTF16, kind)
     for n, (a, b, new) in enumerate(steps, start=2):
         positions = PositionMap(doc.text, UTF16)
