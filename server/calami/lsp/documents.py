@@ -145,7 +145,8 @@ class Document:
                 text = change.text
                 dirty = 0
                 continue
-            positions = PositionMap(text, self.encoding)
+            # The map of the current text is usually built already (by the last publish).
+            positions = self.positions if text is self.text else PositionMap(text, self.encoding)
             rng = change.range
             try:
                 start = positions.offset(rng.start)
