@@ -12,6 +12,7 @@ from __future__ import annotations
 import asyncio
 import logging
 import os
+import sys
 import time
 from concurrent.futures import ThreadPoolExecutor
 from typing import Any, Callable
@@ -28,6 +29,7 @@ from calami.text.spans import subtract
 log = logging.getLogger("calami.lsp")
 
 SOURCE = "calami"
+SWITCH_INTERVAL_S = 0.0005
 # Pull reports' resultIds start with this, so an id from an earlier server run never matches.
 _RUN_ID = os.urandom(4).hex()
 CODES = {NONWORD: "calami.nonword", "realword": "calami.realword", DIRECTIVE: "calami.directive"}
@@ -196,6 +198,10 @@ class Scheduler:
         self.settings_for = settings_for
         self.publish = publish
         self.executor = ThreadPoolExecutor(max_workers=1, thread_name_prefix="calami-check")
+        # A message that arrives while the worker checks waits for the GIL up to
+        # the switch interval (5 ms by default) before it is even read; an
+        # editor's pull request always arrives then.
+        sys.setswitchinterval(min(sys.getswitchinterval(), SWITCH_INTERVAL_S))
         self.pending: dict[str, asyncio.Task[Any]] = {}
         self.findings: dict[str, tuple[int, list[Finding]]] = {}
         # LSP JSON of the findings above, per version (what push sent, what pull answers).
