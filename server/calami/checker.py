@@ -439,9 +439,18 @@ class Checker:
                 (c, log_error + self._q(kid, c)) for c in nbrs
                 if lexicon.flags[c] & LOWER and lexicon.is_variant(c, self.variant)
                 and not lexicon.variant_pair(kid, c)]  # the variant setting decides those, not context
-        lp = self._lp
         keys = lexicon.keys
-        hyps = [(c, base + lp(c, left) + lp(right, c)) for c, base in options]
+        # The hottest loop of a prose check: the memo is read here, not through _lp.
+        lp, memo = self._lp, self._lp_cache
+        hyps = []
+        for c, base in options:
+            a = memo.get((c, left))
+            if a is None:
+                a = lp(c, left)
+            b = memo.get((right, c))
+            if b is None:
+                b = lp(right, c)
+            hyps.append((c, base + a + b))
         if boosts:
             hyps = [(c, h + boosts.get(keys[c], 0.0)) for c, h in hyps]
         verdict = self._realword_verdict(word, h0, hyps)
