@@ -141,6 +141,8 @@ def unpack_trees() -> list[Path]:
     import zipfile
 
     roots = []
+    if not SDISTS.is_dir() or not any(SDISTS.iterdir()):
+        print(f"note: no sdists in {SDISTS.relative_to(REPO)} (bench_false_alarms.py downloads them): the stdlib only")
     for archive in sorted(SDISTS.glob("*")) if SDISTS.is_dir() else []:
         stem = archive.name.removesuffix(".tar.gz").removesuffix(".zip")
         target = TREES / stem
