@@ -206,7 +206,7 @@ class Scheduler:
         self.findings: dict[str, tuple[int, list[Finding]]] = {}
         # LSP JSON of the findings above, per version (what push sent, what pull answers).
         self.wire: dict[str, tuple[int, list[dict[str, Any]]]] = {}
-        self._waiting: set[str] = set()  # documents whose pending check still sleeps (debounce)
+        self._waiting: dict[str, asyncio.Task[Any]] = {}  # uri -> its pending check, while that still sleeps (debounce)
         self._reported: dict[str, tuple[str, list[dict[str, Any]]]] = {}  # uri -> (resultId, items)
         self._report_count = 0
         self._warned: set[tuple[str, str]] = set()
@@ -247,7 +247,7 @@ class Scheduler:
                 return wired[1]
             task = self.pending.get(doc.uri)
             if task is not None and not task.done():
-                if doc.uri in self._waiting:
+                if self._waiting.get(doc.uri) is task:
                     self.schedule(doc, delay_ms=0)
                     task = self.pending[doc.uri]
                 await asyncio.wait([task])  # a newer edit may cancel it: then go round again
@@ -279,11 +279,13 @@ class Scheduler:
     async def _run(self, doc: Document, delay: float, push: bool) -> None:
         try:
             if delay > 0:
-                self._waiting.add(doc.uri)
+                me = asyncio.current_task()
+                self._waiting[doc.uri] = me
                 try:
                     await asyncio.sleep(delay)
                 finally:
-                    self._waiting.discard(doc.uri)
+                    if self._waiting.get(doc.uri) is me:  # a newer check may be waiting already
+                        del self._waiting[doc.uri]
             started = time.perf_counter()
             findings = await self._check(doc)
             if findings is not None:
