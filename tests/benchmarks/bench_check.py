@@ -10,8 +10,9 @@ bench_false_alarms.py), unpacked into build/bench-trees/, and the Python
 standard library's sources on this machine (comments and docstrings).
 Files are found as the command finds them (``commands.check.plan``);
 tests and fixtures are left out; per kind, files are taken in path order
-until they hold ``--per-kind`` prose words.  Printed: words/s per kind
-(in-process, one core, model loaded), overall, and the command itself with
+until they hold ``--per-kind`` prose words.  Printed: words per
+CPU-second per kind (in-process, one core, model loaded; CPU time, so
+other work on the machine counts little), overall, and the command itself with
 ``--jobs 1`` and ``--jobs 2`` on the same files.  ``--baseline REV`` runs
 another commit (a ``git worktree`` under build/) in the same run, taking
 turns with this one, and prints the ratios.
@@ -201,10 +202,10 @@ def measure(listing: Path, model_path: str | None) -> None:
     worker = Worker(default_checker_factory(model_path), None, None)
     seconds: dict[str, float] = {}
     for kind, entries in files.items():
-        started = time.perf_counter()
+        started = time.process_time()  # CPU time: other work on a shared machine does not count
         for file, root, _ in entries:
             worker.run(Task(file, file, root, kind).pack())
-        seconds[kind] = time.perf_counter() - started
+        seconds[kind] = time.process_time() - started
     print(json.dumps(seconds))
 
 
@@ -241,7 +242,7 @@ def bench_real_trees(per_kind: int, model_path: str | None, baseline: str | None
             for kind, secs in json.loads(done.stdout.strip().splitlines()[-1]).items():
                 best[label][kind] = min(secs, best[label].get(kind, float("inf")))
     head = f"{'kind':12s} {'files':>5s} {'words':>7s}" + "".join(f" {label + ' w/s':>12s}" for label, _ in builds)
-    print(f"in-process, 1 core, model loaded (best of {rounds}):")
+    print(f"in-process, words per CPU-second (one core), model loaded (best of {rounds}):")
     print("  " + head + ("   ratio" if baseline else ""))
     for kind in sorted(files, key=lambda k: words[k] / best["this"][k]):
         rates = [words[kind] / best[label][kind] for label, _ in builds]
