@@ -421,6 +421,14 @@ def _results(tasks: list[Task], args: argparse.Namespace, learn_from: list[Task]
 
     method = "fork" if "fork" in multiprocessing.get_all_start_methods() else None
     context = multiprocessing.get_context(method)
+    if method == "fork" and CHECKER_FACTORY is default_checker_factory:
+        # The workers inherit the model loaded above, but its candidate index
+        # unpacks on a thread, which a fork does not carry over: finish it first.
+        from calami.model import load
+
+        wait = getattr(load(args.model).candidates, "wait", None)
+        if wait is not None:
+            wait()
     # Largest documents first: in task order, one big file near the end kept
     # a worker busy long after the other had run dry.  Results still come out
     # in task order.
