@@ -42,6 +42,7 @@ FAR_KEPT = 8  # the most frequent of those distance-3 keys are kept
 # Candidates re-scored with multi-character rules when checking a document.
 RULE_RESCORED = 3
 NAME_LOG_PENALTY = math.log(0.1)
+LP_CACHE_SIZE = 100_000  # memoised language-model terms (~13 MB at most)
 # Share of a noun's uses that are possessive (our estimate, not fitted).
 POSSESSIVE_LOG_SHARE = math.log(0.01)
 FORMATION_LOG_RATE = math.log(0.05)  # a new word formed regularly from a listed one (tuned on development documents)
@@ -129,6 +130,30 @@ class _LRU(OrderedDict):
         return value
 
 
+def _shared_caches(model: Model, variant: str) -> dict:
+    """Word-level results that depend on the model and the variant only, for every checker built on them.
+
+    ``calami check`` builds a checker per project (each tree of a monorepo,
+    each unpacked package) and the server one after every word-list change;
+    each started cold, so small files in many projects ran at a third of the
+    speed of large ones.  Adaptations and thresholds are applied after these
+    lookups, never stored in them.  The tuned parameters are part of the key:
+    tuning changes them on a loaded model between checkers.
+    """
+    per_model = model.__dict__.setdefault("_checker_caches", {})
+    key = (variant, repr(vars(model.params)))
+    caches = per_model.get(key)
+    if caches is None:
+        ids = model.lexicon.ids
+        confusable = {(ids[a], ids[b]) for a, b in confusion_pairs() if a in ids and b in ids}
+        caches = per_model[key] = {
+            "confusable": confusable, "confusable_words": {a for a, _ in confusable},
+            "q": {}, "realword_options": {},
+            "channel": _LRU(20000), "novel": _LRU(20000), "lp": {},
+        }
+    return caches
+
+
 class Checker:
     """Scores tokens with the model and the user's/project's adaptations.
 
@@ -166,16 +191,17 @@ class Checker:
         self.channel_weight = p.channel_weight
         self.log_alpha = math.log(p.alpha)
         self.log_error = math.log(1.0 - p.alpha)
-        ids = model.lexicon.ids
-        self._confusable = {(ids[a], ids[b]) for a, b in confusion_pairs() if a in ids and b in ids}
-        self._confusable_words = {a for a, _ in self._confusable}
         self.log_alpha_conf = math.log(p.alpha_confusable)
         self.log_error_conf = math.log(1.0 - p.alpha_confusable)
-        self._q_cache: dict[tuple[int, int], float] = {}
+        shared = _shared_caches(model, variant)
+        self._confusable: set[tuple[int, int]] = shared["confusable"]
+        self._confusable_words: set[int] = shared["confusable_words"]
+        self._q_cache: dict[tuple[int, int], float] = shared["q"]
         # Per listed word: its usable real-word neighbours with log P(error) + log Q.
-        self._realword_options: dict[int, list[tuple[int, float]]] = {}
-        self._channel_cache: _LRU = _LRU(20000)
-        self._novel_cache: _LRU = _LRU(20000)
+        self._realword_options: dict[int, list[tuple[int, float]]] = shared["realword_options"]
+        self._channel_cache: _LRU = shared["channel"]
+        self._novel_cache: _LRU = shared["novel"]
+        self._lp_cache: dict[tuple[int | None, int | None], float] = shared["lp"]  # (w, v) -> log P(w | v)
 
     # ------------------------------------------------------------ front doors
 
@@ -413,9 +439,13 @@ class Checker:
                 (c, log_error + self._q(kid, c)) for c in nbrs
                 if lexicon.flags[c] & LOWER and lexicon.is_variant(c, self.variant)
                 and not lexicon.variant_pair(kid, c)]  # the variant setting decides those, not context
-        lp = self._lp
         keys = lexicon.keys
-        hyps = [(c, base + lp(c, left) + lp(right, c)) for c, base in options]
+        # The hottest loop of a prose check: one call per side for all options.
+        lm, log = model.lm, math.log
+        cs = [c for c, _ in options]
+        lefts = [log(p) if p > 0 else -50.0 for p in lm.probs_after(left, cs)]
+        rights = [0.0] * len(cs) if right is None else [log(p) if p > 0 else -50.0 for p in lm.probs_before(right, cs)]
+        hyps = [(c, base + a + b) for (c, base), a, b in zip(options, lefts, rights)]
         if boosts:
             hyps = [(c, h + boosts.get(keys[c], 0.0)) for c, h in hyps]
         verdict = self._realword_verdict(word, h0, hyps)
@@ -640,8 +670,15 @@ class Checker:
         """log P(w | v); ``v`` None is no context, ``w`` None a missing right neighbour (log 1)."""
         if w is None:
             return 0.0
-        p = self.model.lm.prob(w, v)
-        return math.log(p) if p > 0 else -50.0
+        key = (w, v)
+        lp = self._lp_cache.get(key)
+        if lp is None:
+            p = self.model.lm.prob(w, v)
+            lp = math.log(p) if p > 0 else -50.0
+            if len(self._lp_cache) >= LP_CACHE_SIZE:
+                self._lp_cache.clear()  # cheaper than an LRU, and a fresh start refills fast
+            self._lp_cache[key] = lp
+        return lp
 
     def _context_id(self, text: str, last: bool) -> int:
         toks = [t for t in tokenize(text)] if text else []

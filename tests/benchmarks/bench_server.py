@@ -1,11 +1,27 @@
-"""Server benchmark (prints figures; never asserts on time).
+"""Server latency as the editor sees it (prints figures; never asserts on time).
 
-    python tests/benchmarks/bench_server.py [--fake] [--edits N]
+    python tests/benchmarks/bench_server.py [--fake] [--model FILE] [--edits N] [--baseline REV] [--modes push,pull]
 
-1. one-character edit -> published diagnostics in a 20,000-word Markdown
-   document (median, p95), and the ratio to a full re-check of that document;
-2. server start -> ``initialize`` response;
-3. server RSS with ten 5,000-word documents open.
+A plain JSON-RPC client (asyncio pipes, ``Content-Length`` framing,
+``json``; no LSP library on the client side, so its own decoding does not
+count) drives ``calami serve`` over stdio and measures, on the client's
+clock:
+
+1. process spawn -> ``initialize`` answer;
+2. ``didOpen`` of a 20,000-word Markdown document -> its first diagnostics;
+3. one-character ``didChange`` -> the diagnostics for that version
+   (median, p95), with the server's own figure beside it (from its debug
+   log: change received -> diagnostics written), so the gap shows;
+
+each in push mode (``textDocument/publishDiagnostics`` with the version)
+and pull mode (``textDocument/diagnostic`` after every change, passing the
+last ``resultId`` as an editor does); then RSS with ten 5,000-word
+documents open.
+
+``--baseline REV`` runs the server of another commit (checked out with
+``git worktree`` under build/) in the same run: the two servers take turns
+on every measurement, so load from other work on the machine falls on both
+alike, and the ratios are printed.
 
 The prose is real English: docstrings of the Python standard library
 (installed with Python itself), laid out as Markdown paragraphs, with a few
@@ -17,21 +33,22 @@ from __future__ import annotations
 
 import argparse
 import asyncio
-import warnings
 import importlib
+import json
+import os
 import random
 import re
 import statistics
+import subprocess
 import sys
+import tempfile
 import time
+import warnings
 from pathlib import Path
 from typing import Any
 
 HERE = Path(__file__).resolve().parent
-sys.path.insert(0, str(HERE.parent / "lsp"))
-
-
-import session  # noqa: E402
+REPO = HERE.parents[1]
 
 MODULES = [
     "argparse", "asyncio", "collections", "concurrent.futures", "contextlib", "csv", "dataclasses", "datetime",
@@ -81,7 +98,30 @@ def markdown_document(words: int, seed: int) -> str:
     return "\n\n".join(parts) + "\n"
 
 
-SERVER_TIME = re.compile(r"diagnostics in ([0-9.]+) ms")
+def one_char_edits(text: str, count: int, seed: int = 2) -> list[tuple[int, int, int, str]]:
+    """(line, start column, end column, new text): insert an 'x', then delete a character, alternately."""
+    lines = text.split("\n")
+    rng = random.Random(seed)
+    long_lines = [i for i, line in enumerate(lines) if len(line) > 20]
+    out = []
+    for n in range(count):
+        line = rng.choice(long_lines)
+        col = rng.randrange(1, len(lines[line]) - 1)
+        if n % 2 == 0:
+            lines[line] = lines[line][:col] + "x" + lines[line][col:]
+            out.append((line, col, col, "x"))
+        else:
+            lines[line] = lines[line][:col] + lines[line][col + 1:]
+            out.append((line, col, col + 1, ""))
+    return out
+
+
+# Server-side figure from the debug log: the current server says how long
+# since the change arrived; older ones only timed the check.
+# In pull mode only the pull answer counts.
+SINCE_CHANGE = re.compile(r"v(\d+): \d+ diagnostics in [0-9.]+ ms \(([0-9.]+) ms since the change arrived")
+PULL_ANSWERED = re.compile(r"v(\d+): pull answered, \d+ diagnostics \(([0-9.]+) ms since the change arrived")
+CHECK_ONLY = re.compile(r"v(\d+): \d+ diagnostics in ([0-9.]+) ms$")
 
 
 def _median_p95(values: list[float]) -> tuple[float, float]:
@@ -96,86 +136,246 @@ def rss_mb(pid: int) -> float:
     return float("nan")
 
 
-async def wait_version(client: Any, uri: str, version: int, timeout: float = 600) -> Any:
-    return await session.until(lambda: session.published_for(client, uri, version), timeout=timeout)
+class Client:
+    """A minimal LSP client: framing, ids, notifications; answers the server's few requests."""
+
+    def __init__(self, proc: asyncio.subprocess.Process, pull: bool) -> None:
+        self.proc = proc
+        self.pull = pull
+        self.next_id = 0
+        self.waiting: dict[int, asyncio.Future[Any]] = {}
+        self.published: dict[tuple[str, int], tuple[float, int]] = {}  # (uri, version) -> (arrival, count)
+        self.server_ms: dict[tuple[str, int], float] = {}  # (uri path tail, version) -> server's figure
+        self.events: dict[tuple[str, int], asyncio.Event] = {}
+        self.reader = asyncio.ensure_future(self._read())
+
+    @classmethod
+    async def spawn(cls, command: list[str], env: dict[str, str], pull: bool) -> "Client":
+        proc = await asyncio.create_subprocess_exec(
+            *command, stdin=asyncio.subprocess.PIPE, stdout=asyncio.subprocess.PIPE, stderr=asyncio.subprocess.DEVNULL,
+            env=env, limit=2**26,
+        )
+        return cls(proc, pull)
+
+    def _write(self, message: dict[str, Any]) -> None:
+        body = json.dumps(message).encode()
+        self.proc.stdin.write(b"Content-Length: %d\r\n\r\n" % len(body) + body)
+
+    def request(self, method: str, params: Any) -> asyncio.Future[Any]:
+        self.next_id += 1
+        future = asyncio.get_running_loop().create_future()
+        self.waiting[self.next_id] = future
+        self._write({"jsonrpc": "2.0", "id": self.next_id, "method": method, "params": params})
+        return future
+
+    def notify(self, method: str, params: Any) -> None:
+        self._write({"jsonrpc": "2.0", "method": method, "params": params})
+
+    def event(self, uri: str, version: int) -> asyncio.Event:
+        return self.events.setdefault((uri, version), asyncio.Event())
+
+    async def _read(self) -> None:
+        stream = self.proc.stdout
+        while True:
+            length = 0
+            while True:
+                line = await stream.readline()
+                if not line:
+                    return
+                if line.lower().startswith(b"content-length:"):
+                    length = int(line.split(b":")[1])
+                elif line in (b"\r\n", b"\n"):
+                    break
+            message = json.loads(await stream.readexactly(length))
+            now = time.perf_counter()
+            if "id" in message and "method" not in message:
+                future = self.waiting.pop(message["id"], None)
+                if future is not None and not future.done():
+                    future.set_result((now, message))
+            elif "id" in message:  # a request from the server
+                result = [None] * len(message["params"].get("items", [])) if message["method"] == "workspace/configuration" else None
+                self._write({"jsonrpc": "2.0", "id": message["id"], "result": result})
+            elif message.get("method") == "textDocument/publishDiagnostics":
+                params = message["params"]
+                key = (params["uri"], params.get("version"))
+                self.published[key] = (now, len(params["diagnostics"]))
+                self.event(*key).set()
+            elif message.get("method") == "window/logMessage":
+                text = message["params"]["message"]
+                match = PULL_ANSWERED.search(text) if self.pull else SINCE_CHANGE.search(text) or CHECK_ONLY.search(text)
+                if match:
+                    self.server_ms[(text.split(" v")[0].rsplit("/", 1)[-1], int(match.group(1)))] = float(match.group(2))
+
+    async def stop(self) -> None:
+        try:
+            await asyncio.wait_for(self.request("shutdown", None), 10)
+            self.notify("exit", None)
+            await asyncio.wait_for(self.proc.wait(), 10)
+        except (asyncio.TimeoutError, ConnectionError):
+            self.proc.kill()
+            await self.proc.wait()
+        self.reader.cancel()
 
 
-async def bench_edits(command: list[str], edits: int, tmp: Path) -> None:
-    text = markdown_document(20_000, seed=1)
-    path = tmp / "big.md"
-    client, _ = await session.start(tmp / "profile", [tmp], command=command, options={"debounceMs": 0})
+class Server:
+    """One server build under test: how to start it and what it is called."""
+
+    def __init__(self, label: str, command: list[str], env: dict[str, str]) -> None:
+        self.label = label
+        self.command = command
+        self.env = env
+
+    async def start(self, root: Path, pull: bool) -> tuple[Client, float]:
+        """Spawn and initialize; returns the client and spawn -> initialize answer (s)."""
+        started = time.perf_counter()
+        client = await Client.spawn(self.command, self.env, pull)
+        caps: dict[str, Any] = {"textDocument": {"publishDiagnostics": {"versionSupport": True}}}
+        if pull:
+            caps["textDocument"]["diagnostic"] = {}
+        answered, _ = await client.request("initialize", {
+            "processId": os.getpid(), "rootUri": root.as_uri(), "capabilities": caps,
+            "workspaceFolders": [{"uri": root.as_uri(), "name": root.name}],
+            "initializationOptions": {"debounceMs": 0},
+        })
+        client.notify("initialized", {})
+        return client, answered - started
+
+
+async def first_diagnostics(client: Client, uri: str, text: str, pull: bool) -> tuple[float, int, Any]:
+    """didOpen -> diagnostics of version 1: (seconds, count, resultId)."""
+    started = time.perf_counter()
+    client.notify("textDocument/didOpen", {"textDocument": {"uri": uri, "languageId": "markdown", "version": 1, "text": text}})
+    if pull:
+        arrived, message = await client.request("textDocument/diagnostic", {"textDocument": {"uri": uri}})
+        result = message["result"]
+        return arrived - started, len(result.get("items", [])), result.get("resultId")
+    await client.event(uri, 1).wait()
+    arrived, count = client.published[(uri, 1)]
+    return arrived - started, count, None
+
+
+async def one_edit(client: Client, uri: str, version: int, edit: tuple[int, int, int, str], pull: bool,
+                   result_id: Any) -> tuple[float, Any]:
+    line, start, end, new = edit
+    started = time.perf_counter()
+    client.notify("textDocument/didChange", {
+        "textDocument": {"uri": uri, "version": version},
+        "contentChanges": [{"range": {"start": {"line": line, "character": start}, "end": {"line": line, "character": end}},
+                            "text": new}],
+    })
+    if pull:
+        params: dict[str, Any] = {"textDocument": {"uri": uri}}
+        if result_id is not None:
+            params["previousResultId"] = result_id
+        arrived, message = await client.request("textDocument/diagnostic", params)
+        return arrived - started, message["result"].get("resultId", result_id)
+    await client.event(uri, version).wait()
+    return client.published[(uri, version)][0] - started, None
+
+
+def _ms(values: list[float]) -> str:
+    median, p95 = _median_p95(values)
+    return f"median {median * 1000:6.1f} ms, p95 {p95 * 1000:6.1f} ms"
+
+
+async def bench_start(servers: list[Server], root: Path, runs: int) -> None:
+    times: dict[str, list[float]] = {s.label: [] for s in servers}
+    for _ in range(runs):
+        for server in servers:  # take turns, so load falls on both alike
+            client, took = await server.start(root, pull=False)
+            times[server.label].append(took)
+            await client.stop()
+    print(f"\nspawn -> initialize answer ({runs} runs each, alternating):")
+    for server in servers:
+        t = times[server.label]
+        print(f"  {server.label:10s} median {statistics.median(t) * 1000:6.0f} ms (min {min(t) * 1000:.0f}, max {max(t) * 1000:.0f})")
+    if len(servers) == 2:
+        a, b = (statistics.median(times[s.label]) for s in servers)
+        print(f"  ratio {servers[0].label}/{servers[1].label}: {a / b:.2f}")
+
+
+async def bench_mode(servers: list[Server], root: Path, text: str, edits: int, pull: bool) -> None:
+    mode = "pull" if pull else "push"
+    print(f"\n{mode} mode, 20,000-word Markdown ({len(text):,} chars):")
+    clients, uris, result_ids = [], [], []
     try:
-        t0 = time.perf_counter()
-        uri = session.open_doc(client, path, text)
-        first = await wait_version(client, uri, 1)
-        open_s = time.perf_counter() - t0
-        print(f"20,000-word Markdown ({len(text):,} chars): open -> diagnostics {open_s * 1000:.0f} ms, "
-              f"{len(first.diagnostics)} diagnostics")
-        lines = text.split("\n")
-        rng = random.Random(2)
-        timings = []
-        for n in range(edits):
-            version = n + 2
-            line = rng.choice([i for i, l in enumerate(lines) if len(l) > 20])
-            col = rng.randrange(1, len(lines[line]) - 1)
-            if n % 2 == 0:
-                rng_ = ((line, col), (line, col))
-                new = "x"
-                lines[line] = lines[line][:col] + "x" + lines[line][col:]
-            else:  # delete a character again
-                rng_ = ((line, col), (line, col + 1))
-                new = ""
-                lines[line] = lines[line][:col] + lines[line][col + 1:]
-            t = time.perf_counter()
-            session.edit(client, uri, version, rng_[0], rng_[1], new)
-            await wait_version(client, uri, version)
-            timings.append(time.perf_counter() - t)
-        median, p95 = _median_p95(timings)
-        print(f"one-char edit -> published diagnostics ({edits} edits, client-measured round trip): "
-              f"median {median * 1000:.1f} ms, p95 {p95 * 1000:.1f} ms")
-        server_ms = [float(m.group(1)) for m in (SERVER_TIME.search(x.message) for x in client.log_messages)
-                     if m and "big.md" in m.string][1:]  # [0] is the open
-        if server_ms:
-            s_median, s_p95 = _median_p95(server_ms)
-            print(f"  server time (edit received -> diagnostics written, from the server's debug log): "
-                  f"median {s_median:.1f} ms, p95 {s_p95:.1f} ms")
-        # A full re-check of the same document: a fresh document (cold cache).
-        t = time.perf_counter()
-        uri2 = session.open_doc(client, tmp / "copy.md", "\n".join(lines))
-        await wait_version(client, uri2, 1)
-        full = time.perf_counter() - t
-        print(f"full re-check of the same document (cold cache, same server, client-measured): {full * 1000:.0f} ms; "
-              f"median edit / full = 1/{full / median:.0f}")
-        copy_ms = [float(m.group(1)) for m in (SERVER_TIME.search(x.message) for x in client.log_messages)
-                   if m and "copy.md" in m.string]
-        if server_ms and copy_ms:
-            print(f"  server time: full check {copy_ms[-1]:.0f} ms; median edit / full = 1/{copy_ms[-1] / s_median:.0f}")
+        for server in servers:  # one at a time: a server that waits costs the other nothing
+            client, _ = await server.start(root, pull)
+            clients.append(client)
+            uri = (root / f"big-{mode}-{server.label}.md").as_uri()
+            took, count, result_id = await first_diagnostics(client, uri, text, pull)
+            uris.append(uri)
+            result_ids.append(result_id)
+            print(f"  {server.label:10s} didOpen right after initialized -> first diagnostics {took * 1000:6.0f} ms "
+                  f"({count} diagnostics; includes waiting for the model)")
+        plan = one_char_edits(text, edits)
+        timings: list[list[float]] = [[] for _ in servers]
+        for n, edit in enumerate(plan):
+            for i, client in enumerate(clients):  # take turns edit by edit
+                took, result_ids[i] = await one_edit(client, uris[i], n + 2, edit, pull, result_ids[i])
+                timings[i].append(took)
+        await asyncio.sleep(0.2)  # let the last log messages arrive
+        print(f"  one-character didChange -> diagnostics of that version ({edits} edits, alternating):")
+        for i, server in enumerate(servers):
+            tail = uris[i].rsplit("/", 1)[-1]
+            server_side = [clients[i].server_ms[(tail, v)] for v in range(2, edits + 2) if (tail, v) in clients[i].server_ms]
+            side = (f"server's own figure: median {_median_p95(server_side)[0]:5.1f} ms, p95 {_median_p95(server_side)[1]:5.1f} ms"
+                    if len(server_side) >= edits // 2 else "server's own figure: not logged")
+            print(f"  {server.label:10s} client sees {_ms(timings[i])};  {side}")
+        if len(servers) == 2:
+            (m0, p0), (m1, p1) = _median_p95(timings[0]), _median_p95(timings[1])
+            print(f"  ratio {servers[0].label}/{servers[1].label}: median {m0 / m1:.2f}, p95 {p0 / p1:.2f}")
+        fresh: list[list[float]] = [[] for _ in servers]
+        for seed in (3, 4, 5):  # documents neither server has seen, taking turns
+            other = markdown_document(20_000, seed=seed)
+            for i, (server, client) in enumerate(zip(servers, clients)):
+                uri = (root / f"other{seed}-{mode}-{server.label}.md").as_uri()
+                took, count, _ = await first_diagnostics(client, uri, other, pull)
+                fresh[i].append(took)
+        for i, server in enumerate(servers):
+            print(f"  {server.label:10s} didOpen of another 20,000-word document, model loaded -> diagnostics: "
+                  f"median {statistics.median(fresh[i]) * 1000:6.0f} ms of 3")
+        if len(servers) == 2:
+            print(f"  ratio {servers[0].label}/{servers[1].label}: {statistics.median(fresh[0]) / statistics.median(fresh[1]):.2f}")
     finally:
-        await session.stop(client)
+        for client in clients:
+            await client.stop()
 
 
-async def bench_start(command: list[str], tmp: Path, runs: int = 5) -> None:
-    times = []
-    for i in range(runs):
-        t = time.perf_counter()
-        client, _ = await session.start(tmp / "profile", [tmp], command=command)
-        times.append(time.perf_counter() - t)
-        await session.stop(client)
-    print(f"server start -> initialize response: median {statistics.median(times) * 1000:.0f} ms "
-          f"(min {min(times) * 1000:.0f}, max {max(times) * 1000:.0f}, {runs} runs)")
-
-
-async def bench_rss(command: list[str], tmp: Path) -> None:
-    client, _ = await session.start(tmp / "profile", [tmp], command=command, options={"debounceMs": 0})
+async def bench_rss(server: Server, root: Path) -> None:
+    client, _ = await server.start(root, pull=False)
     try:
-        pid = client._server.pid
-        base = rss_mb(pid)
-        uris = [session.open_doc(client, tmp / f"doc{i}.md", markdown_document(5_000, seed=10 + i)) for i in range(10)]
+        base = rss_mb(client.proc.pid)
+        uris = []
+        for i in range(10):
+            uri = (root / f"doc{i}.md").as_uri()
+            client.notify("textDocument/didOpen", {"textDocument": {
+                "uri": uri, "languageId": "markdown", "version": 1, "text": markdown_document(5_000, seed=10 + i)}})
+            uris.append(uri)
         for uri in uris:
-            await wait_version(client, uri, 1)
-        print(f"RSS: {base:.0f} MB after initialize; {rss_mb(pid):.0f} MB with ten 5,000-word documents open")
+            await client.event(uri, 1).wait()
+        print(f"\nRSS ({server.label}): {base:.0f} MB after initialize; {rss_mb(client.proc.pid):.0f} MB with ten 5,000-word documents open")
     finally:
-        await session.stop(client)
+        await client.stop()
+
+
+def baseline_tree(rev: str) -> Path:
+    """A checkout of ``rev`` under build/ (made once per commit, reused)."""
+    commit = subprocess.run(["git", "rev-parse", "--short", rev], cwd=REPO, capture_output=True, text=True, check=True).stdout.strip()
+    tree = REPO / "build" / f"bench-baseline-{commit}"
+    if not (tree / "server" / "calami").is_dir():
+        subprocess.run(["git", "worktree", "add", "--detach", str(tree), commit], cwd=REPO, check=True,
+                       stdout=subprocess.DEVNULL)
+    return tree
+
+
+def server_for(tree: Path, label: str, fake: bool, model: str | None, profile: Path) -> Server:
+    env = dict(os.environ, CALAMI_PROFILE_DIR=str(profile), PYTHONPATH=str(tree / "server"))
+    if fake:
+        command = [sys.executable, str(tree / "tests" / "lsp" / "fake_server.py"), "--debug"]
+    else:
+        command = [sys.executable, "-m", "calami", "serve", "--log-level", "debug"] + (["--model", model] if model else [])
+    return Server(label, command, env)
 
 
 def main() -> None:
@@ -183,19 +383,30 @@ def main() -> None:
     parser.add_argument("--fake", action="store_true", help="use the small test checker instead of the model")
     parser.add_argument("--model", help="model file for calami serve (default: the shipped model)")
     parser.add_argument("--edits", type=int, default=60)
+    parser.add_argument("--starts", type=int, default=5, help="spawn -> initialize runs per server")
+    parser.add_argument("--baseline", metavar="REV", help="also run this commit's server, taking turns with this one")
+    parser.add_argument("--modes", default="push,pull")
     args = parser.parse_args()
-    command = (session.FAKE_SERVER + ["--debug"] if args.fake
-               else session.REAL_SERVER + ["--log-level", "debug"] + (["--model", args.model] if args.model else []))
-    label = "fake checker" if args.fake else f"calami serve ({args.model or 'shipped model'})"
-    print(f"server: {label}; python {sys.version.split()[0]}")
-    import tempfile
 
+    model = args.model
+    if not args.fake and model is None:  # the same model file for both servers
+        sys.path.insert(0, str(REPO / "server"))
+        from calami.model import default_model_path
+
+        model = str(default_model_path())
     with tempfile.TemporaryDirectory() as tmp:
-        root = Path(tmp)
-        (root / ".git").mkdir()
-        asyncio.run(bench_start(command, root))
-        asyncio.run(bench_edits(command, args.edits, root))
-        asyncio.run(bench_rss(command, root))
+        root = Path(tmp) / "proj"
+        (root / ".git").mkdir(parents=True)
+        servers = [server_for(REPO, "this", args.fake, model, Path(tmp) / "profile")]
+        if args.baseline:
+            servers.append(server_for(baseline_tree(args.baseline), args.baseline, args.fake, model, Path(tmp) / "profile"))
+        print(f"servers: {', '.join(s.label for s in servers)}; checker: {'fake' if args.fake else model}; "
+              f"python {sys.version.split()[0]}; {os.cpu_count()} cores")
+        text = markdown_document(20_000, seed=1)
+        asyncio.run(bench_start(servers, root, args.starts))
+        for mode in args.modes.split(","):
+            asyncio.run(bench_mode(servers, root, text, args.edits, pull=mode.strip() == "pull"))
+        asyncio.run(bench_rss(servers[0], root))
 
 
 if __name__ == "__main__":

@@ -234,3 +234,24 @@ def test_directives_hush_and_accept_in_the_server_path():
     doc = Document("file:///t.md", "markdown", 1, text, UTF16, "markdown")
     words = [f.word for f in compute(doc, text, 1, FakeChecker(), Settings())]
     assert words == ["teh"]
+
+
+def test_sentence_cache_follows_the_document_not_its_history():
+    """Many edits that each make a new sentence leave at most ~2x the live sentences cached."""
+    paragraphs = [f"Paragraph {i} has a few words. It came form far away." for i in range(50)]
+    text = "\n\n".join(paragraphs)
+    checker = FakeChecker()
+    doc = Document("file:///t.md", "markdown", 1, text, UTF16, "markdown")
+    doc.cache.findings(text, prose_spans(text, "markdown"), checker)
+    live = 2 * len(paragraphs)
+    start, number = len("Paragraph "), "0"
+    for n in range(400):
+        positions = PositionMap(doc.text, UTF16)
+        new = str(1000 + n)  # every edit makes a sentence never seen before
+        doc.apply([types.TextDocumentContentChangePartial(
+            range=types.Range(positions.position(start), positions.position(start + len(number))), text=new)], n + 2)
+        number = new
+        found = doc.cache.findings(doc.text, prose_spans(doc.text, "markdown"), checker)
+        assert len(doc.cache._sentences) <= 2 * live + 64
+    assert doc.text.startswith("Paragraph 1399 has")
+    assert found == full_check(doc.text, "markdown")

@@ -229,6 +229,17 @@ def test_several_jobs_give_the_same_report(project, capsys, monkeypatch):
     assert len(json.loads(two)) == 24
 
 
+def test_several_jobs_report_in_path_order_whatever_the_sizes(project, capsys, monkeypatch):
+    # Workers take the largest documents first; the report must not show it.
+    for n in range(12):
+        write(project / "docs" / f"f{n:02}.md", "".join(f"Line {i} of page {n}: teh end.\n\n" for i in range(1 + (n * 7) % 12 * 20)))
+    _, one, _ = run(["--color", "never", "docs"], capsys, project, monkeypatch)
+    code, two, _ = run(["--color", "never", "--jobs", "2", "docs"], capsys, project, monkeypatch)
+    assert code == 1 and one == two
+    names = [line.split(":")[0] for line in two.splitlines() if line.startswith("docs/")]
+    assert names == sorted(names) and len(set(names)) == 12
+
+
 def test_usage_errors_exit_2(project, capsys, monkeypatch):
     write(project / "a.txt", "fine\n")
     assert run(["--jobs", "0", "a.txt"], capsys, project, monkeypatch)[0] == 2

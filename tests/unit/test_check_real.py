@@ -115,3 +115,20 @@ def test_word_count_is_the_same_through_the_engine_and_the_whole_text_path(model
     check_document(text, "markdown", project, WholeText(), whole)
     benchmark_count = sum(1 for t in tokenize(text, extract(text, "markdown")) if t.kind != SKIP)
     assert engine["words"] == whole["words"] == benchmark_count > 100
+
+
+@needs_model
+def test_two_jobs_with_the_shipped_model_report_what_one_does(tmp_path):
+    """The model is loaded before the workers fork (its index unpacks on a thread): same report."""
+    import subprocess
+    import sys
+
+    def check(jobs: str) -> list:
+        done = subprocess.run([sys.executable, "-m", "calami", "check", "--format", "json", "--jobs", jobs, str(DEMO)],
+                              capture_output=True, text=True, cwd=tmp_path, timeout=300)
+        assert done.returncode == 1, done.stderr
+        return json.loads(done.stdout)
+
+    one = check("1")
+    assert len(one) >= len(expected_mistakes())
+    assert check("2") == one

@@ -304,3 +304,47 @@ def test_document_check_rescores_only_the_likeliest_candidates_with_rules(model)
     everything = dict(checker._channel_candidates("fisical", every_candidate=True))
     for c in everything:
         assert everything[c] == pytest.approx(model.channel.log_q("fisical", keys[c]) + name(c))
+
+
+SHARED_CACHE_TEXT = ("The parser will recieve teh data form disk. Their is no cache for the wrold of "
+                     "menubar settings, and it runs ofen. Acessing the filesystem is fast.")
+
+
+class _Accepts:
+    """A project word list that accepts one word."""
+
+    def __init__(self, word):
+        self.word = word
+
+    def accepts(self, word):
+        return word.lower() == self.word
+
+    def corrections(self, typed):
+        return {"received": 3} if typed.lower() == "recieve" else {}
+
+    def ignored(self, word):
+        return 0
+
+
+def test_checkers_sharing_word_caches_decide_as_fresh_ones(model):
+    """Checkers on one model share word-level caches; adaptations and params still act per checker."""
+    fresh_model = _with_params(model)  # same statistics, no caches yet
+    warm = Checker(model)
+    warm.check(SHARED_CACHE_TEXT)  # fills the shared caches
+    adapted = Checker(model, adaptations=[_Accepts("teh")])
+    expected = Checker(fresh_model, adaptations=[_Accepts("teh")]).check(SHARED_CACHE_TEXT)
+    assert adapted.check(SHARED_CACHE_TEXT) == expected
+    assert "teh" not in [f.word for f in expected]
+    assert warm.check(SHARED_CACHE_TEXT) == Checker(_with_params(model)).check(SHARED_CACHE_TEXT)
+    assert "teh" in [f.word for f in warm.check(SHARED_CACHE_TEXT)]
+
+
+def test_changed_params_on_a_loaded_model_are_not_served_from_old_caches(model):
+    """Tuning sets params on a loaded model between checkers (models/recipe/tune_params.py)."""
+    own = _with_params(model)
+    Checker(own).check(SHARED_CACHE_TEXT)
+    own.params.alpha = 0.5  # makes every listed word a likely slip
+    own.params.sound_log_bonus = 0.0
+    after = Checker(own).check(SHARED_CACHE_TEXT)
+    assert after == Checker(_with_params(model, alpha=0.5, sound_log_bonus=0.0)).check(SHARED_CACHE_TEXT)
+    assert after != Checker(model).check(SHARED_CACHE_TEXT)

@@ -384,10 +384,21 @@ def _init_worker(model_path: str | None, variant: str | None, max_bytes: int | N
 
 
 def _work(packed: bytes) -> bytes:
+    """[index, task] -> [index, result], as msgpack bytes."""
     import msgpack
 
     assert _WORKER is not None
-    return msgpack.packb(_WORKER.run(msgpack.unpackb(packed)))
+    index, task = msgpack.unpackb(packed)
+    return msgpack.packb([index, _WORKER.run(task)])
+
+
+def _size(task: Task) -> int:
+    if task.text is not None:
+        return len(task.text)
+    try:
+        return os.path.getsize(task.file or "")
+    except OSError:
+        return 0
 
 
 def _results(tasks: list[Task], args: argparse.Namespace, learn_from: list[Task] | None = None) -> Iterator[dict[str, Any]]:
@@ -410,11 +421,28 @@ def _results(tasks: list[Task], args: argparse.Namespace, learn_from: list[Task]
 
     method = "fork" if "fork" in multiprocessing.get_all_start_methods() else None
     context = multiprocessing.get_context(method)
-    packed = [msgpack.packb(task.pack()) for task in tasks]
-    chunk = max(1, min(16, len(tasks) // (jobs * 8)))
+    if method == "fork" and CHECKER_FACTORY is default_checker_factory:
+        # The workers inherit the model loaded above, but its candidate index
+        # unpacks on a thread, which a fork does not carry over: finish it first.
+        from calami.model import load
+
+        wait = getattr(load(args.model).candidates, "wait", None)
+        if wait is not None:
+            wait()
+    # Largest documents first: in task order, one big file near the end kept
+    # a worker busy long after the other had run dry.  Results still come out
+    # in task order.
+    order = sorted(range(len(tasks)), key=lambda i: -_size(tasks[i]))
+    packed = [msgpack.packb([i, tasks[i].pack()]) for i in order]
+    arrived: dict[int, Any] = {}
+    following = 0
     with context.Pool(jobs, initializer=_init_worker, initargs=(args.model, args.variant, args.max_bytes, explain)) as pool:
-        for result in pool.imap(_work, packed, chunksize=chunk):
-            yield msgpack.unpackb(result)
+        for data in pool.imap_unordered(_work, packed):
+            index, result = msgpack.unpackb(data)
+            arrived[index] = result
+            while following in arrived:
+                yield arrived.pop(following)
+                following += 1
 
 
 # --------------------------------------------------------------- the command

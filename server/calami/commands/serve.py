@@ -102,7 +102,7 @@ def run(args: argparse.Namespace) -> int:
 
     logs.to_stderr(getattr(logging, args.log_level.upper()))
     address = parse_address(args.tcp) if args.tcp else None
-    from calami.model import default_model_path
+    from calami.model_location import default_model_path  # not calami.model: too slow to import here
 
     path = Path(args.model).expanduser() if args.model else default_model_path()
     if not path.is_file():  # the cheap part of load_model's checks, before answering anyone

@@ -11,6 +11,8 @@ from __future__ import annotations
 
 import asyncio
 import logging
+import os
+import sys
 import time
 from concurrent.futures import ThreadPoolExecutor
 from typing import Any, Callable
@@ -27,6 +29,9 @@ from calami.text.spans import subtract
 log = logging.getLogger("calami.lsp")
 
 SOURCE = "calami"
+SWITCH_INTERVAL_S = 0.0005
+# Pull reports' resultIds start with this, so an id from an earlier server run never matches.
+_RUN_ID = os.urandom(4).hex()
 CODES = {NONWORD: "calami.nonword", "realword": "calami.realword", DIRECTIVE: "calami.directive"}
 
 
@@ -193,8 +198,17 @@ class Scheduler:
         self.settings_for = settings_for
         self.publish = publish
         self.executor = ThreadPoolExecutor(max_workers=1, thread_name_prefix="calami-check")
+        # A message that arrives while the worker checks waits for the GIL up to
+        # the switch interval (5 ms by default) before it is even read; an
+        # editor's pull request always arrives then.
+        sys.setswitchinterval(min(sys.getswitchinterval(), SWITCH_INTERVAL_S))
         self.pending: dict[str, asyncio.Task[Any]] = {}
         self.findings: dict[str, tuple[int, list[Finding]]] = {}
+        # LSP JSON of the findings above, per version (what push sent, what pull answers).
+        self.wire: dict[str, tuple[int, list[dict[str, Any]]]] = {}
+        self._waiting: dict[str, asyncio.Task[Any]] = {}  # uri -> its pending check, while that still sleeps (debounce)
+        self._reported: dict[str, tuple[str, list[dict[str, Any]]]] = {}  # uri -> (resultId, items)
+        self._report_count = 0
         self._warned: set[tuple[str, str]] = set()
 
     def schedule(self, doc: Document, delay_ms: int | None = None) -> None:
@@ -212,34 +226,75 @@ class Scheduler:
     def forget(self, uri: str) -> None:
         self.cancel(uri)
         self.findings.pop(uri, None)
+        self.wire.pop(uri, None)
+        self._reported.pop(uri, None)
 
     def stale(self) -> None:
         """Words or settings changed: no stored result is current any more."""
         self.findings.clear()
+        self.wire.clear()
 
-    async def current(self, doc: Document) -> list[types.Diagnostic]:
-        """Diagnostics for the document's current version (pull requests)."""
+    async def current(self, doc: Document) -> list[dict[str, Any]]:
+        """LSP JSON diagnostics for the document's current version (pull requests).
+
+        Joins the check the last edit scheduled instead of starting a second
+        one, and skips what is left of its debounce: a pull means now.
+        """
         while True:
-            cached = self.findings.get(doc.uri)
-            if cached and cached[0] == doc.version:
-                settings = self.settings_for(doc)
-                return [to_diagnostic(f, doc, settings) for f in cached[1]]
             version = doc.version
-            findings = await self._check(doc)
+            wired = self.wire.get(doc.uri)
+            if wired and wired[0] == version:
+                return wired[1]
+            task = self.pending.get(doc.uri)
+            if task is not None and not task.done():
+                if self._waiting.get(doc.uri) is task:
+                    self.schedule(doc, delay_ms=0)
+                    task = self.pending[doc.uri]
+                await asyncio.wait([task])  # a newer edit may cancel it: then go round again
+                continue
+            cached = self.findings.get(doc.uri)
+            findings = cached[1] if cached and cached[0] == version else await self._check(doc)
             if findings is not None and doc.version == version:
-                settings = self.settings_for(doc)
-                return [to_diagnostic(f, doc, settings) for f in findings]
+                return self._wire(doc, findings)
+
+    def result_id(self, doc: Document, items: list[dict[str, Any]]) -> str:
+        """The pull report's ``resultId``: it changes only when the diagnostics do.
+
+        So a client re-asking after an edit that changed no diagnostic gets an
+        ``unchanged`` report (LSP 3.17) instead of the whole list again.
+        """
+        last = self._reported.get(doc.uri)
+        if last is not None and (last[1] is items or last[1] == items):  # reused items compare by identity
+            return last[0]
+        self._report_count += 1
+        result_id = f"{_RUN_ID}-{self._report_count}"
+        self._reported[doc.uri] = (result_id, items)
+        return result_id
+
+    def _wire(self, doc: Document, findings: list[Finding]) -> list[dict[str, Any]]:
+        items = wire_diagnostics(doc, findings, self.settings_for(doc))
+        self.wire[doc.uri] = (doc.version, items)
+        return items
 
     async def _run(self, doc: Document, delay: float, push: bool) -> None:
         try:
             if delay > 0:
-                await asyncio.sleep(delay)
+                me = asyncio.current_task()
+                self._waiting[doc.uri] = me
+                try:
+                    await asyncio.sleep(delay)
+                finally:
+                    if self._waiting.get(doc.uri) is me:  # a newer check may be waiting already
+                        del self._waiting[doc.uri]
             started = time.perf_counter()
             findings = await self._check(doc)
-            if findings is not None and push:
-                self.publish(doc, wire_diagnostics(doc, findings, self.settings_for(doc)))
-                log.debug("calami: %s v%d: %d diagnostics in %.1f ms", doc.uri, doc.version, len(findings),
-                          (time.perf_counter() - started) * 1000)
+            if findings is not None:
+                items = self._wire(doc, findings)
+                if push:
+                    self.publish(doc, items)
+                now = time.perf_counter()
+                log.debug("calami: %s v%d: %d diagnostics in %.1f ms (%.1f ms since the change arrived)",
+                          doc.uri, doc.version, len(findings), (now - started) * 1000, (now - doc.changed_at) * 1000)
         except asyncio.CancelledError:
             raise
         except Exception:  # keep serving; the traceback goes to stderr only

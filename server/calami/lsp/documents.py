@@ -8,6 +8,7 @@ silently corrupting the copy the findings are computed from.
 
 from __future__ import annotations
 
+import time
 from dataclasses import dataclass, field
 from pathlib import Path
 from typing import Any
@@ -120,6 +121,8 @@ class Document:
     # The last Markdown extraction (text, spans, parser checkpoints), reused
     # by the next one; touched only by the checking thread.
     extraction: Any = None
+    # When the last change arrived (perf_counter), for the debug log's latency figure.
+    changed_at: float = field(default_factory=time.perf_counter)
     _positions: PositionMap | None = None
 
     @property
@@ -145,7 +148,8 @@ class Document:
                 text = change.text
                 dirty = 0
                 continue
-            positions = PositionMap(text, self.encoding)
+            # The map of the current text is usually built already (by the last publish).
+            positions = self.positions if text is self.text else PositionMap(text, self.encoding)
             rng = change.range
             try:
                 start = positions.offset(rng.start)
@@ -161,3 +165,4 @@ class Document:
         self.text = text
         self.version = version
         self.dirty_from = dirty
+        self.changed_at = time.perf_counter()

@@ -11,8 +11,10 @@ text changed and re-scores only the sentences whose tokens changed (which
 covers the neighbours whose bigram context changed: they are in the same
 sentence, hence in a changed key).
 
-Entries not used by the latest complete pass are dropped, so memory follows
-the document, not its history.
+Blocks not used by the latest complete pass are dropped.  Sentence entries
+are pruned once they outnumber twice the live document's sentences (copying
+every live sentence key on each keystroke cost more than the checking), so
+memory still follows the document, not its history.
 """
 
 from __future__ import annotations
@@ -77,6 +79,8 @@ class FindingsCache:
         new_sentences: dict[SentenceKey, list[Finding]] = {}
         self.scored_sentences = 0
         self.tokenized_blocks = 0
+        old_blocks = self._blocks
+        live_sentences = 0
         out: list[Finding] = []
         for group in blocks(spans):
             if cancelled():
@@ -85,22 +89,26 @@ class FindingsCache:
                 self._sentences.update(new_sentences)
                 raise Cancelled()
             origin = group[0].start
-            end = group[-1].end
-            key: BlockKey = (
-                text[origin:end],
-                tuple((s.start - origin, s.end - origin, s.kind, s.breaks_before) for s in group[1:]),
-            )
-            block = new_blocks.get(key) or self._blocks.get(key)
+            if len(group) == 1:
+                key: BlockKey = (text[origin : group[0].end], ())
+            else:
+                key = (
+                    text[origin : group[-1].end],
+                    tuple((s.start - origin, s.end - origin, s.kind, s.breaks_before) for s in group[1:]),
+                )
+            block = new_blocks.get(key) or old_blocks.get(key)
             if block is None:
                 block = self._score_block(text, group, new_sentences, checker)
-            else:
-                # Keep the block's sentences alive: the next edit inside the
-                # block should re-score only the sentence it touches.
-                new_sentences.update(block.sentences)
             new_blocks[key] = block
-            out.extend(f.shifted(origin) if origin else f for f in block.findings)
+            live_sentences += len(block.sentences)
+            if block.findings:
+                out.extend([f.shifted(origin) for f in block.findings] if origin else block.findings)
         self._blocks = new_blocks
-        self._sentences = new_sentences
+        self._sentences.update(new_sentences)
+        if len(self._sentences) > 2 * live_sentences + 64:
+            # Keep only the sentences of live blocks, so that the next edit
+            # inside any block re-scores only the sentence it touches.
+            self._sentences = {k: v for b in new_blocks.values() for k, v in b.sentences}
         return out
 
     def _score_block(

@@ -10,6 +10,7 @@ from __future__ import annotations
 import asyncio
 import inspect
 import logging
+import time
 from pathlib import Path
 from typing import Any
 
@@ -22,7 +23,7 @@ from calami.lsp.actions import ArgumentError, check_arguments, context_argument,
 from calami.lsp.documents import ChangeError, Document, document_kind, uri_to_path
 from calami.lsp.hover import hover, workspace_hover
 from calami.lsp.positions import choose_encoding
-from calami.lsp.server import WATCHED, CalamiServer, _folders, _config_supported
+from calami.lsp.server import WATCHED, CalamiServer, ReadyJSON, _folders, _config_supported
 
 log = logging.getLogger("calami.lsp")
 
@@ -156,15 +157,18 @@ def features(server: CalamiServer) -> None:
         types.TEXT_DOCUMENT_DIAGNOSTIC,
         types.DiagnosticOptions(identifier="calami", inter_file_dependencies=False, workspace_diagnostics=False),
     )
-    async def pull_diagnostics(ls: CalamiServer, params: types.DocumentDiagnosticParams) -> types.DocumentDiagnosticReport:
+    async def pull_diagnostics(ls: CalamiServer, params: types.DocumentDiagnosticParams) -> ReadyJSON:
         doc = ls.docs.get(params.text_document.uri)
         if doc is None:
             raise JsonRpcInvalidParams(f"unknown document {params.text_document.uri!r} (not open in this server)")
-        diagnostics = await ls.scheduler.current(doc)
-        result_id = f"{doc.version}:{ls.projects.generation}:{len(doc.ignored)}"
+        items = await ls.scheduler.current(doc)
+        result_id = ls.scheduler.result_id(doc, items)
+        log.debug("calami: %s v%d: pull answered, %d diagnostics (%.1f ms since the change arrived)",
+                  doc.uri, doc.version, len(items), (time.perf_counter() - doc.changed_at) * 1000)
         if params.previous_result_id == result_id:
-            return types.RelatedUnchangedDocumentDiagnosticReport(result_id=result_id)
-        return types.RelatedFullDocumentDiagnosticReport(items=diagnostics or [], result_id=result_id)
+            return ReadyJSON({"kind": "unchanged", "resultId": result_id})
+        # Already LSP JSON (types.RelatedFullDocumentDiagnosticReport's wire form): no cattrs pass.
+        return ReadyJSON({"kind": "full", "resultId": result_id, "items": items})
 
     @server.feature(
         types.TEXT_DOCUMENT_CODE_ACTION,

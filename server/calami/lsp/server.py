@@ -30,8 +30,22 @@ log = logging.getLogger("calami.lsp")
 WATCHED = ("calami.toml", "pyproject.toml", *LEXICON_NAMES)
 
 
+class ReadyJSON(dict):
+    """A handler's result that is LSP JSON already: sent as is, not through cattrs.
+
+    Unstructuring thousands of diagnostics per pull request cost more than
+    computing them (same reason as ``_publish``).
+    """
+
+
 class CalamiProtocol(LanguageServerProtocol):
     """Keeps documents out of pygls' workspace: ours validates every change."""
+
+    def _send_response(self, msg_id: Any, result: Any = None, error: Any = None) -> None:
+        if error is None and isinstance(result, ReadyJSON):
+            self._send_data({"jsonrpc": "2.0", "id": msg_id, "result": result})
+            return
+        super()._send_response(msg_id, result, error)
 
     @lsp_method(types.INITIALIZE)
     def lsp_initialize(self, params: types.InitializeParams):

@@ -7,21 +7,19 @@ otherwise; ``Model.from_parts`` builds one in memory (tests, the builder).
 from __future__ import annotations
 
 import os
-import sys
 from array import array
 from dataclasses import dataclass, field
 from pathlib import Path
 from typing import Any
 
 from calami.model import store
+from calami.model_location import MODEL_FILENAME, default_model_path  # noqa: F401 - the model's public names
 from calami.model.candidates import CandidateIndex
 from calami.model.channel import ChannelModel
 from calami.model.language import LanguageModel
 from calami.model.lexicon import Lexicon
 from calami.model.novel import NovelWordModel
 from calami.text.tokens import BOS, EOS
-
-MODEL_FILENAME = "calami-en.msgpack"
 
 
 @dataclass
@@ -176,22 +174,6 @@ class SoundIndex:
 
     def __eq__(self, other: object) -> bool:
         return dict(self.items()) == dict(other.items()) if hasattr(other, "items") else NotImplemented
-
-
-def default_model_path() -> Path:
-    """$CALAMI_MODEL, the repository's models/ folder, or the installed share/ copy."""
-    env = os.environ.get("CALAMI_MODEL")
-    if env:
-        return Path(env).expanduser()
-    here = Path(__file__).resolve()
-    repo_copy = here.parents[3] / "models" / MODEL_FILENAME
-    if repo_copy.exists():
-        return repo_copy
-    for prefix in (sys.prefix, sys.base_prefix):
-        shared = Path(prefix) / "share" / "calami" / MODEL_FILENAME
-        if shared.exists():
-            return shared
-    return repo_copy
 
 
 _CACHE: dict[Path, Model] = {}

@@ -230,6 +230,17 @@ class ChannelModel:
                         for i in at:
                             jumps.setdefault((i, j), []).append((i - len(beta), j0, rc))
         INF = float("inf")
+        # Costs that depend on one side only are looked up once per pair, not once per cell.
+        cs = ["", *c]  # cs[j] is the j-th character of c
+        dels: list[float | None] = [None] * (m + 1)
+        for j in range(1, m + 1):
+            cj = c[j - 1]
+            if cj not in BOUNDS:
+                ctx = c[j - 2] if j > 1 else START
+                v = cache.get(("d", ctx, cj))
+                dels[j] = nlr("d", ctx, cj) if v is None else v
+        at_first_of = [first_penalty if j - 1 == first else 0.0 for j in range(m + 1)]
+        ins_first_of = [first_penalty if j == first else 0.0 for j in range(m + 1)]
         d = [[INF] * (m + 1) for _ in range(n + 1)]
         d[0][0] = 0.0
         for i in range(n + 1):
@@ -237,27 +248,28 @@ class ChannelModel:
             prev_t = t[i - 2] if i > 1 else START
             row, up = d[i], d[i - 1] if i > 0 else None
             ins_ok = i > 0 and ti not in BOUNDS
+            if ins_ok:
+                v = cache.get(("i", prev_t, ti))
+                ins_cost = nlr("i", prev_t, ti) if v is None else v
             for j in range(m + 1):
                 if i == 0 and j == 0:
                     continue
                 best = INF
-                cj = c[j - 1] if j > 0 else ""
-                at_first = first_penalty if j - 1 == first else 0.0
+                cj = cs[j]
+                at_first = at_first_of[j]
                 if i > 0 and j > 0:
                     if ti == cj:
                         best = up[j - 1]
                     elif ti not in BOUNDS and cj not in BOUNDS:
                         v = cache.get(("s", ti, cj))
                         best = up[j - 1] + (nlr("s", ti, cj) if v is None else v) + step + at_first
-                if j > 0 and cj not in BOUNDS:
-                    ctx = c[j - 2] if j > 1 else START
-                    v = cache.get(("d", ctx, cj))
-                    x = row[j - 1] + (nlr("d", ctx, cj) if v is None else v) + step + at_first
+                dv = dels[j]
+                if dv is not None:
+                    x = row[j - 1] + dv + step + at_first
                     if x < best:
                         best = x
                 if ins_ok:
-                    v = cache.get(("i", prev_t, ti))
-                    x = up[j] + (nlr("i", prev_t, ti) if v is None else v) + step + (first_penalty if j == first else 0.0)
+                    x = up[j] + ins_cost + step + ins_first_of[j]
                     if x < best:
                         best = x
                 if (i > 1 and j > 1 and ti == c[j - 2] and prev_t == cj and ti != cj

@@ -70,6 +70,57 @@ class LanguageModel:
         return max(c_vw - self.discount, 0.0) / c_v + self.gamma[v] * p_uni
 
 
+    # The real-word check asks for one context against many words (and the
+    # reverse) thousands of times per document: the same sums as ``prob``,
+    # without three method calls per term.
+
+    def probs_after(self, v: int | None, ws: Sequence[int]) -> list[float]:
+        """[P(w | v) for w in ws], equal to ``prob`` term by term."""
+        prior = self.prior
+        if v is None:
+            return [prior[w] for w in ws]
+        lam, cont, cont_total = self.lam, self.cont, self.cont_total
+        c_v = self.ctx_count[v]
+        if c_v == 0:
+            return [(1.0 - lam) * (cont[w] / cont_total if cont_total else 0.0) + lam * prior[w] for w in ws]
+        lo, hi = self.row_start[v], self.row_start[v + 1]
+        col, cnt, discount, g = self.col, self.cnt, self.discount, self.gamma[v]
+        out = []
+        for w in ws:
+            c_vw = 0
+            if lo != hi:
+                i = bisect.bisect_left(col, w, lo, hi)
+                if i < hi and col[i] == w:
+                    c_vw = cnt[i]
+            p_uni = (1.0 - lam) * (cont[w] / cont_total if cont_total else 0.0) + lam * prior[w]
+            out.append(max(c_vw - discount, 0.0) / c_v + g * p_uni)
+        return out
+
+    def probs_before(self, w: int, vs: Sequence[int | None]) -> list[float]:
+        """[P(w | v) for v in vs], equal to ``prob`` term by term."""
+        p_uni = self.unigram(w)
+        prior_w = self.prior[w]
+        ctx_count, row_start, col, cnt, gamma, discount = (
+            self.ctx_count, self.row_start, self.col, self.cnt, self.gamma, self.discount)
+        out = []
+        for v in vs:
+            if v is None:
+                out.append(prior_w)
+                continue
+            c_v = ctx_count[v]
+            if c_v == 0:
+                out.append(p_uni)
+                continue
+            lo, hi = row_start[v], row_start[v + 1]
+            c_vw = 0
+            if lo != hi:
+                i = bisect.bisect_left(col, w, lo, hi)
+                if i < hi and col[i] == w:
+                    c_vw = cnt[i]
+            out.append(max(c_vw - discount, 0.0) / c_v + gamma[v] * p_uni)
+        return out
+
+
 class BigramCounter:
     """Accumulates unigram and bigram counts over id sentences (build time only)."""
 

@@ -85,6 +85,8 @@ class ProjectLexicon:
         return isinstance(word, str) and self.accepts(word)
 
     def accepts(self, word: str) -> bool:
+        if not self.exact:
+            return False  # most projects have no list: asked twice per word checked
         plain = word.replace("’", "'")
         forms = [plain]
         if plain.endswith("'s") or plain.endswith("'S"):
