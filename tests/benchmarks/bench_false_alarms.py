@@ -129,6 +129,25 @@ def _documents(tree: Path):
             continue
 
 
+_ENDINGS = ("ing", "es", "ed", "s", "d", "e")
+
+
+def same_lemma(a: str, b: str) -> bool:
+    """True if two words differ only by a regular ending ("looking"/"look", "examples"/"example").
+
+    Learners' misspelling sets often pair a misspelling with the word form
+    the writer meant ("lookig" -> "look" in "I am lookig"), while the
+    spelling's nearest word is another form of it; this row shows how many
+    "wrong" confident fixes are such pairs (strict scoring is the row above).
+    """
+    def stem(word: str) -> str:
+        for ending in _ENDINGS:
+            if word.endswith(ending) and len(word) - len(ending) >= 3:
+                return word[: -len(ending)]
+        return word
+    return bool(a) and stem(a) == stem(b)
+
+
 def _plant_pairs(lexicon) -> dict[str, dict[str, list[str]]]:
     """correction -> {"nonword": [...], "realword": [...]} from the dev split of two misspelling sets."""
     from calami.model.pairs import read_pairs, split
@@ -264,6 +283,7 @@ def measure(args) -> dict:
                 if f.confident:
                     s[f"confident {plant_kind}"] += 1
                     s[f"confident right {plant_kind}"] += right
+                    s[f"confident same word {plant_kind}"] += right or same_lemma((f.best or "").lower(), intended)
     return {"stats": {k: dict(v) for k, v in stats.items()}, "flagged": flagged, "missed": missed}
 
 
@@ -287,6 +307,8 @@ def _rows(stats: dict) -> list[tuple[str, str]]:
         rows.append((f"planted {kind}: best fix right", f"{stats.get(f'fixed {kind}', 0) / max(1, planted):.1%}"))
         rows.append((f"planted {kind}: confident right",
                      f"{stats.get(f'confident right {kind}', 0)}/{conf} = {stats.get(f'confident right {kind}', 0) / max(1, conf):.1%}"))
+        same = stats.get(f"confident same word {kind}", 0)
+        rows.append((f"  ... or another form of it", f"{same}/{conf} = {same / max(1, conf):.1%}"))
     return rows
 
 
