@@ -25,7 +25,8 @@
 (defvar driver-result (list (cons 'errors [])))
 
 (defun driver-put (key value)
-  (setq driver-result (cons (cons key value) driver-result)))
+  "Set KEY in the result (replacing an earlier value: JSON keeps one)."
+  (setf (alist-get key driver-result) value))
 
 (defun driver-wait (condition)
   "Process events until CONDITION returns non-nil or the deadline passes."
