@@ -1,0 +1,204 @@
+"""Drives a real Kate (the KDE editor) under Xvfb for tests/editors/test_kate.py.
+
+Kate has no batch mode, so the test runs it on a private X display and types
+at it with xdotool, as a user would: Alt+Return opens the LSP Client's code
+action menu, Down/Return picks an entry.  What Kate did is read back in two
+ways: lsp_tap.py, set as the server command, writes down every message Kate
+and calami exchange; and kate_commands.js adds two commands to Kate's own
+command line (F7) that place the cursor and print the buffer.
+"""
+
+from __future__ import annotations
+
+import json
+import os
+import re
+import shutil
+import subprocess
+import sys
+import time
+from pathlib import Path
+from typing import Any, Callable
+
+HERE = Path(__file__).parent
+TAP = HERE / "lsp_tap.py"
+COMMANDS_JS = HERE / "kate_commands.js"
+WINDOW_SIZE = (1200, 850)
+STATE_LINE = re.compile(r"calami-test (\{.*\})")
+
+
+def missing_programs() -> list[str]:
+    return [name for name in ("kate", "Xvfb", "xdotool") if shutil.which(name) is None]
+
+
+def wait_until(condition: Callable[[], Any], timeout: float, what: str) -> Any:
+    """Poll `condition` until it returns something true; fail naming `what`."""
+    deadline = time.monotonic() + timeout
+    while True:
+        value = condition()
+        if value:
+            return value
+        if time.monotonic() > deadline:
+            raise AssertionError(f"Kate: timed out after {timeout:.0f} s waiting for {what}")
+        time.sleep(0.2)
+
+
+class Tap:
+    """The messages lsp_tap.py wrote down, in order."""
+
+    def __init__(self, path: Path) -> None:
+        self.path = path
+
+    def messages(self) -> list[dict]:
+        if not self.path.exists():
+            return []
+        out = []
+        for line in self.path.read_text(encoding="utf-8").splitlines():
+            try:
+                out.append(json.loads(line))
+            except ValueError:
+                break  # a line still being written
+        return out
+
+    def from_editor(self, method: str) -> list[dict]:
+        return [m["message"] for m in self.messages()
+                if m["from"] == "editor" and m["message"].get("method") == method]
+
+    def diagnostics(self, uri: str) -> list[list[dict]]:
+        """Every publishDiagnostics list calami sent for `uri`, oldest first."""
+        return [m["message"]["params"]["diagnostics"] for m in self.messages()
+                if m["from"] == "server" and m["message"].get("method") == "textDocument/publishDiagnostics"
+                and m["message"]["params"]["uri"] == uri]
+
+    def response(self, request_id: Any) -> dict | None:
+        for m in self.messages():
+            if m["from"] == "server" and m["message"].get("id") == request_id and "method" not in m["message"]:
+                return m["message"]
+        return None
+
+
+class Kate:
+    """One Kate on its own Xvfb display, with a private HOME."""
+
+    def __init__(self, tmp_path: Path, env: dict[str, str], timeout: float) -> None:
+        self.tmp_path = tmp_path
+        self.env = dict(env)
+        self.timeout = timeout
+        self.stderr_path = tmp_path / "kate-stderr.txt"
+        self.xvfb: subprocess.Popen | None = None
+        self.kate: subprocess.Popen | None = None
+        self.window = ""
+
+    # --- set-up -------------------------------------------------------------
+    def configure(self, settings: dict, allowed_command: list[str]) -> None:
+        """The LSP Client's user server settings, the plugin enabled, the
+        server's command line trusted (Kate asks otherwise), and the test commands."""
+        config = Path(self.env["XDG_CONFIG_HOME"])
+        (config / "kate" / "lspclient").mkdir(parents=True, exist_ok=True)
+        (config / "kate" / "lspclient" / "settings.json").write_text(json.dumps(settings, indent=2), encoding="utf-8")
+        (config / "katerc").write_text(
+            "[Kate Plugins]\nlspclientplugin=true\n\n"
+            f"[lspclient]\nAllowedServerCommandLines={' '.join(allowed_command)}\n",
+            encoding="utf-8",
+        )
+        scripts = Path(self.env["XDG_DATA_HOME"]) / "katepart5" / "script" / "commands"
+        scripts.mkdir(parents=True, exist_ok=True)
+        shutil.copy(COMMANDS_JS, scripts / "calami_test.js")
+
+    def start(self, cwd: Path, file: str) -> None:
+        read, write = os.pipe()
+        self.xvfb = subprocess.Popen(
+            ["Xvfb", "-displayfd", str(write), "-screen", "0", "1280x900x24", "-nolisten", "tcp"],
+            pass_fds=(write,), stdin=subprocess.DEVNULL, stdout=subprocess.DEVNULL, stderr=subprocess.DEVNULL,
+        )
+        os.close(write)
+        with os.fdopen(read) as pipe:
+            display = pipe.readline().strip()
+        assert display, "Xvfb did not start"
+        self.env["DISPLAY"] = f":{display}"
+        with self.stderr_path.open("wb") as err:
+            self.kate = subprocess.Popen(["kate", "-n", file], cwd=cwd, env=self.env,
+                                         stdin=subprocess.DEVNULL, stdout=subprocess.DEVNULL, stderr=err)
+        self.window = wait_until(self._main_window, self.timeout, "Kate's window")
+        self.xdotool("windowsize", "--sync", self.window, *map(str, WINDOW_SIZE))
+        self.focus()
+
+    def stop(self) -> None:
+        for proc in (self.kate, self.xvfb):
+            if proc is not None and proc.poll() is None:
+                proc.terminate()
+                try:
+                    proc.wait(timeout=15)
+                except subprocess.TimeoutExpired:
+                    proc.kill()
+                    proc.wait(timeout=15)
+
+    # --- input --------------------------------------------------------------
+    def xdotool(self, *args: str) -> str:
+        proc = subprocess.run(["xdotool", *args], env=self.env, stdin=subprocess.DEVNULL,
+                              capture_output=True, text=True, timeout=60)
+        return proc.stdout
+
+    def _visible_windows(self) -> list[str]:
+        return self.xdotool("search", "--onlyvisible", "--class", "kate").split()
+
+    def _main_window(self) -> str:
+        assert self.kate is not None and self.kate.poll() is None, f"Kate exited: {self.stderr_tail()}"
+        windows = self._visible_windows()
+        return windows[0] if windows else ""
+
+    def focus(self) -> None:
+        self.xdotool("windowfocus", "--sync", self.window)
+
+    def keys(self, *keys: str) -> None:
+        self.xdotool("key", "--clearmodifiers", *keys)
+
+    def command(self, text: str) -> dict:
+        """Run a command on Kate's command line (F7); its printed state."""
+        for _attempt in range(3):  # a key lost while Kate was busy: type it again
+            seen = len(self.states())
+            self.focus()
+            self.keys("F7")
+            time.sleep(0.3)
+            self.xdotool("type", "--delay", "20", text)
+            self.keys("Return")
+            try:
+                return wait_until(lambda: self.states()[seen:] and self.states()[seen], 10, f"'{text}'")
+            except AssertionError:
+                self.keys("Escape")
+        raise AssertionError(f"Kate never ran '{text}': {self.stderr_tail()}")
+
+    def states(self) -> list[dict]:
+        text = self.stderr_path.read_text(encoding="utf-8", errors="replace") if self.stderr_path.exists() else ""
+        return [json.loads(m.group(1)) for m in STATE_LINE.finditer(text)]
+
+    def goto(self, line: int, column: int) -> dict:
+        state = self.command(f"calamigoto {line} {column}")
+        assert (state["line"], state["column"]) == (line, column), state
+        return state
+
+    def pick_code_action(self, tap: Tap, choose: Callable[[list[dict]], int]) -> tuple[dict, list[dict], int]:
+        """Alt+Return (LSP Client > Code Action) at the cursor, then the entry
+        `choose` names by its index in calami's answer.  Returns Kate's
+        request, calami's actions and the index picked."""
+        asked = len(tap.from_editor("textDocument/codeAction"))
+        windows = len(self._visible_windows())
+        self.focus()
+        self.keys("alt+Return")
+        request = wait_until(lambda: tap.from_editor("textDocument/codeAction")[asked:], self.timeout,
+                             "Kate's code action request")[0]
+        actions = wait_until(lambda: tap.response(request["id"]), self.timeout, "calami's code actions")["result"]
+        wait_until(lambda: len(self._visible_windows()) > windows, self.timeout, "the code action menu")
+        index = choose(actions)
+        self.keys(*["Down"] * (index + 1), "Return")
+        return request, actions, index
+
+    def stderr_tail(self) -> str:
+        if not self.stderr_path.exists():
+            return "(no stderr)"
+        return self.stderr_path.read_text(encoding="utf-8", errors="replace")[-3000:]
+
+
+def tap_command(log: Path, server: list[str]) -> list[str]:
+    """The server command with lsp_tap.py in front, all absolute paths."""
+    return [sys.executable, str(TAP), str(log), "--", *server]
