@@ -105,7 +105,9 @@ class Kate:
         scripts.mkdir(parents=True, exist_ok=True)
         shutil.copy(COMMANDS_JS, scripts / "calami_test.js")
 
-    def start(self, cwd: Path, file: str) -> None:
+    def _start_display(self) -> bool:
+        """An Xvfb of our own that answers; False to try again (a display
+        number raced with another X server on this machine)."""
         read, write = os.pipe()
         self.xvfb = subprocess.Popen(
             ["Xvfb", "-displayfd", str(write), "-screen", "0", "1280x900x24", "-nolisten", "tcp"],
@@ -114,8 +116,17 @@ class Kate:
         os.close(write)
         with os.fdopen(read) as pipe:
             display = pipe.readline().strip()
-        assert display, "Xvfb did not start"
         self.env["DISPLAY"] = f":{display}"
+        answers = bool(display) and subprocess.run(
+            ["xdotool", "getdisplaygeometry"], env=self.env, stdin=subprocess.DEVNULL,
+            capture_output=True, timeout=60).returncode == 0
+        if answers and self.xvfb.poll() is None:
+            return True
+        self.stop()
+        return False
+
+    def start(self, cwd: Path, file: str) -> None:
+        assert any(self._start_display() for _attempt in range(5)), "Xvfb did not start"
         with self.stderr_path.open("wb") as err:
             self.kate = subprocess.Popen(["kate", "-n", file], cwd=cwd, env=self.env,
                                          stdin=subprocess.DEVNULL, stdout=subprocess.DEVNULL, stderr=err)

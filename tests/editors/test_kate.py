@@ -128,3 +128,26 @@ def test_kate_shows_the_demo_hints_applies_the_preferred_fix_and_adds_a_word(tmp
     wait_until(lambda: [d for d in tap.diagnostics(uri)[-1:] if [x["range"]["start"]["line"] for x in d] == [
         p.line - 1 for p in planted if p not in (target, added)]], TIMEOUT, "the hint on the added word to go")
     assert kate.command("calamistate")["text"] == fixed  # adding a word does not touch the buffer
+
+
+def test_kate_with_the_model_missing_restarts_calami_once_then_gives_up(tmp_path, kate_session):
+    """What Kate shows then (its Output view: calami's own "calami: ..." line
+    after "LSP Server Log", then "Server terminated unexpectedly ...
+    Restarting", and "... NOT Restarting" the second time) was read on a
+    screenshot; this test checks the part a test can see: the server is
+    started twice, and never gets past initialize."""
+    from editor_support import missing_model
+
+    demo = copy_demo(tmp_path)
+    change, _line = missing_model(tmp_path)
+    settings = json.loads(SETTINGS.read_text(encoding="utf-8"))
+    tap = Tap(tmp_path / "lsp-tap.jsonl")
+    command = tap_command(tap.path, server_command())
+    settings["servers"]["calami"]["command"] = command
+    kate_session({**isolated_env(tmp_path), **change}, settings, command, demo)
+    wait_until(lambda: len(tap.from_editor("initialize")) >= 2, TIMEOUT, "Kate's restart of the server")
+    import time
+
+    time.sleep(3)  # room for a third start, which must not come
+    assert len(tap.from_editor("initialize")) == 2
+    assert not [m for m in tap.messages() if m["from"] == "server"]  # calami exited before answering
