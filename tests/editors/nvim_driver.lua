@@ -80,7 +80,7 @@ local function run_start_only()
   vim.cmd('edit ' .. vim.fn.fnameescape(files[1]))
   vim.wait(math.max(0, deadline - vim.loop.now()), function()
     for _, m in ipairs(result.messages) do
-      if m.level and m.level >= vim.log.levels.WARN then return true end
+      if type(m.msg) == 'string' and m.msg:match('^calami: ') then return true end
     end
     return false
   end, 50)

@@ -149,3 +149,5 @@ def test_neovim_with_the_model_missing_shows_calamis_reason(tmp_path):
     result = run_neovim(tmp_path, demo, ["README.md"], CALAMI_TEST_SCENARIO="start-only", **change)
     errors = [m["msg"] for m in result["messages"] if m["level"] == 4]  # vim.log.levels.ERROR
     assert errors == [line], (result["messages"], result["log_tail"])  # calami's own line, read from the LSP log
+    # Neovim 0.7's own warning comes first (README: "When something is missing").
+    assert [m["msg"] for m in result["messages"] if m["level"] == 3] == ["Client 1 quit with exit code 2 and signal 0"]
