@@ -134,3 +134,17 @@ def missing_model(tmp_path: Path) -> tuple[dict[str, str], str]:
     lines = [line for line in proc.stderr.splitlines() if line.startswith("calami: ")]
     assert len(lines) == 1 and "model" in lines[0], proc.stderr
     return change, lines[0]
+
+
+def server_defaults() -> dict:
+    """The server's own setting defaults (calami.lsp.settings), under the names editors send."""
+    from calami.lsp.settings import Settings
+
+    d = Settings()
+    return {
+        "variant": d.variant, "hintThreshold": d.hint_threshold, "confidentThreshold": d.confident_threshold,
+        "severity": {"nonword": d.severity_nonword, "realword": d.severity_realword},
+        "maxSuggestions": d.max_suggestions, "checkStrings": d.check_strings, "debounceMs": d.debounce_ms,
+        "modelPath": d.model_path, "wordList": d.word_list,
+    }
+

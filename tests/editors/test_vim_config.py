@@ -19,7 +19,9 @@ from pathlib import Path
 
 import pytest
 
-from editor_support import EDITOR_CONFIGS, copy_demo, isolated_env, path_without_calami, server_command
+from editor_support import (
+    EDITOR_CONFIGS, copy_demo, isolated_env, path_without_calami, server_command, server_defaults,
+)
 
 pytestmark = [
     pytest.mark.editor,
@@ -28,19 +30,6 @@ pytestmark = [
 
 HERE = Path(__file__).parent
 CONFIG = EDITOR_CONFIGS / "vim" / "calami.vim"
-
-
-def server_defaults() -> dict:
-    """The server's own defaults (calami.lsp.settings), in the settings' names."""
-    from calami.lsp.settings import Settings
-
-    d = Settings()
-    return {
-        "variant": d.variant, "hintThreshold": d.hint_threshold, "confidentThreshold": d.confident_threshold,
-        "severity": {"nonword": d.severity_nonword, "realword": d.severity_realword},
-        "maxSuggestions": d.max_suggestions, "checkStrings": d.check_strings, "debounceMs": d.debounce_ms,
-        "modelPath": d.model_path, "wordList": d.word_list,
-    }
 
 
 def run_vim(tmp_path: Path, demo: Path, **env_changes: str) -> dict:
