@@ -170,13 +170,13 @@ class Kate:
             seen = len(self.states())
             self.focus()
             self.keys("F7")
-            time.sleep(0.3)
-            self.xdotool("type", "--delay", "20", text)
+            time.sleep(0.5)
+            self.xdotool("type", "--delay", "30", text)
             self.keys("Return")
             try:
-                return wait_until(lambda: self.states()[seen:] and self.states()[seen], 10, f"'{text}'")
+                return wait_until(lambda: self.states()[seen:] and self.states()[seen], self.timeout / 3, f"'{text}'")
             except AssertionError:
-                self.keys("Escape")
+                self.keys("Escape", "Escape")
         raise AssertionError(f"Kate never ran '{text}': {self.stderr_tail()}")
 
     def states(self) -> list[dict]:
@@ -200,8 +200,10 @@ class Kate:
                              "Kate's code action request")[0]
         actions = wait_until(lambda: tap.response(request["id"]), self.timeout, "calami's code actions")["result"]
         wait_until(lambda: len(self._visible_windows()) > windows, self.timeout, "the code action menu")
+        time.sleep(0.5)  # the menu is mapped; let it take the keyboard
         index = choose(actions)
         self.keys(*["Down"] * (index + 1), "Return")
+        wait_until(lambda: len(self._visible_windows()) <= windows, self.timeout, "the code action menu to close")
         return request, actions, index
 
     def stderr_tail(self) -> str:

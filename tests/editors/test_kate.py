@@ -11,13 +11,14 @@ Expected hints: demo/EXPECTED.md's rows for the README.
 from __future__ import annotations
 
 import json
+import time
 from pathlib import Path
 
 import pytest
 
 from editor_support import (
     EDITOR_CONFIGS, PROJECT_WORD_TITLE, REPLACE_TITLE, check_word_added, copy_demo, isolated_env,
-    planted_mistakes, project_word_list, replaced, server_command, word_actions,
+    missing_model, planted_mistakes, project_word_list, replaced, server_command, word_actions,
 )
 from kate_support import Kate, Tap, missing_programs, tap_command, wait_until
 
@@ -136,8 +137,6 @@ def test_kate_with_the_model_missing_restarts_calami_once_then_gives_up(tmp_path
     Restarting", and "... NOT Restarting" the second time) was read on a
     screenshot; this test checks the part a test can see: the server is
     started twice, and never gets past initialize."""
-    from editor_support import missing_model
-
     demo = copy_demo(tmp_path)
     change, _line = missing_model(tmp_path)
     settings = json.loads(SETTINGS.read_text(encoding="utf-8"))
@@ -146,8 +145,6 @@ def test_kate_with_the_model_missing_restarts_calami_once_then_gives_up(tmp_path
     settings["servers"]["calami"]["command"] = command
     kate_session({**isolated_env(tmp_path), **change}, settings, command, demo)
     wait_until(lambda: len(tap.from_editor("initialize")) >= 2, TIMEOUT, "Kate's restart of the server")
-    import time
-
     time.sleep(3)  # room for a third start, which must not come
     assert len(tap.from_editor("initialize")) == 2
     assert not [m for m in tap.messages() if m["from"] == "server"]  # calami exited before answering
