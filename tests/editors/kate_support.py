@@ -110,7 +110,8 @@ class Kate:
         number raced with another X server on this machine)."""
         read, write = os.pipe()
         self.xvfb = subprocess.Popen(
-            ["Xvfb", "-displayfd", str(write), "-screen", "0", "1280x900x24", "-nolisten", "tcp"],
+            ["Xvfb", "-displayfd", str(write), "-screen", "0", "1280x900x24", "-nolisten", "tcp",
+             "-fbdir", str(self.tmp_path)],  # the screen as an XWD file, Xvfb_screen0, to look at after a failure
             pass_fds=(write,), stdin=subprocess.DEVNULL, stdout=subprocess.DEVNULL, stderr=subprocess.DEVNULL,
         )
         os.close(write)
@@ -130,7 +131,7 @@ class Kate:
         with self.stderr_path.open("wb") as err:
             self.kate = subprocess.Popen(["kate", "-n", file], cwd=cwd, env=self.env,
                                          stdin=subprocess.DEVNULL, stdout=subprocess.DEVNULL, stderr=err)
-        self.window = wait_until(self._main_window, self.timeout, "Kate's window")
+        self.window = wait_until(lambda: self._main_window(file), self.timeout, f"Kate's window showing {file}")
         self.xdotool("windowsize", "--sync", self.window, *map(str, WINDOW_SIZE))
         self.focus()
 
@@ -153,10 +154,14 @@ class Kate:
     def _visible_windows(self) -> list[str]:
         return self.xdotool("search", "--onlyvisible", "--class", "kate").split()
 
-    def _main_window(self) -> str:
+    def _main_window(self, file: str) -> str:
+        """Kate's main window once its title names `file` ("README.md — Kate")."""
         assert self.kate is not None and self.kate.poll() is None, f"Kate exited: {self.stderr_tail()}"
-        windows = self._visible_windows()
-        return windows[0] if windows else ""
+        for window in self._visible_windows():
+            name = self.xdotool("getwindowname", window).strip()
+            if name.startswith(file) and name.endswith("Kate"):
+                return window
+        return ""
 
     def focus(self) -> None:
         self.xdotool("windowfocus", "--sync", self.window)
@@ -170,14 +175,15 @@ class Kate:
             seen = len(self.states())
             self.focus()
             self.keys("F7")
-            time.sleep(0.5)
+            time.sleep(1.0)  # the command line must have the keyboard before we type
             self.xdotool("type", "--delay", "30", text)
             self.keys("Return")
             try:
                 return wait_until(lambda: self.states()[seen:] and self.states()[seen], self.timeout / 3, f"'{text}'")
             except AssertionError:
                 self.keys("Escape", "Escape")
-        raise AssertionError(f"Kate never ran '{text}': {self.stderr_tail()}")
+        raise AssertionError(f"Kate never ran '{text}' (screen: {self.tmp_path / 'Xvfb_screen0'}): "
+                             f"{self.stderr_tail()}")
 
     def states(self) -> list[dict]:
         text = self.stderr_path.read_text(encoding="utf-8", errors="replace") if self.stderr_path.exists() else ""

@@ -96,6 +96,8 @@ def test_kate_shows_the_demo_hints_applies_the_preferred_fix_and_adds_a_word(tmp
     # The preferred fix: cursor on the word, Alt+Return, the entry calami
     # marked preferred (the first one, since calami lists it first).
     kate.goto(target.line - 1, target.char_col)
+    assert not tap.from_editor("textDocument/didChange"), "keys meant for Kate's command line went into the text"
+
     request, actions, index = kate.pick_code_action(
         tap, lambda acts: next(i for i, a in enumerate(acts) if a.get("isPreferred")))
     assert request["params"]["range"]["start"]["line"] == target.line - 1  # Kate asks for the cursor's line
