@@ -85,21 +85,28 @@ def replaced(lines: list[str], line: int, col: int, old: str, new: str) -> list[
 
 
 # --- what the tests look for in the editors' menus and files --------------
-# The quick-fix titles the server offers (calami.lsp.actions builds them).
-# Kept here, in one place, so that a renamed label touches one line.
+# The quick-fix titles the server offers, kept here in one place so that a
+# renamed label touches one line; the project lexicon's comes from
+# calami.lsp.actions itself.
 REPLACE_TITLE = "Replace with '{word}'"
-PROJECT_WORD_TITLE = "Add '{word}' to project words"
 USER_WORD_TITLE = "Add '{word}' to my words"
 IGNORE_TITLE = "Ignore '{word}' in this document"
 
 
+def project_word_title(word: str) -> str:
+    """The title of "add `word` to the project lexicon"."""
+    from calami.lsp.actions import add_to_lexicon_title
+
+    return add_to_lexicon_title(word)
+
+
 def word_actions(word: str) -> list[str]:
     """The menu's last entries for a flagged word, in the server's order."""
-    return [PROJECT_WORD_TITLE.format(word=word), USER_WORD_TITLE.format(word=word), IGNORE_TITLE.format(word=word)]
+    return [project_word_title(word), USER_WORD_TITLE.format(word=word), IGNORE_TITLE.format(word=word)]
 
 
 def project_word_list(root: Path) -> Path:
-    """The file "add to the project's list" edits, as the server's own project code names it."""
+    """The file "add to the project lexicon" edits, as the server's own project code names it."""
     from calami.vocab.project import Project
 
     return Path(Project(root).word_list_path)

@@ -6,7 +6,7 @@
 ;; preferred quick fix through `eglot-code-actions' (answering its prompt
 ;; with the default, as a user pressing RET does) and writes everything it
 ;; saw to a JSON file.
-;; Then it picks "add to the project's list" for a second word from the
+;; Then it picks "add to the project lexicon" for a second word from the
 ;; same menu.
 ;; Environment: CALAMI_TEST_CONFIGS (editor-configs/emacs), CALAMI_EMACS_CMD
 ;; (server command, words separated by spaces; unset: the config's
@@ -162,7 +162,7 @@
                        t))
       (driver-put 'diagnostics_after (vconcat (driver-calami-diagnostics)))))
 
-  ;; "Add to the project's list" on a second word.
+  ;; "Add to the project lexicon" on a second word.
   (let* ((spec (split-string (getenv "CALAMI_TEST_ADD") ":"))
          (line (string-to-number (car spec)))
          (col (string-to-number (cadr spec)))

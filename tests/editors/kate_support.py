@@ -11,7 +11,7 @@ command line (F7) that place the cursor and print the buffer.
 from __future__ import annotations
 
 import json
-import os
+import random
 import re
 import shutil
 import subprocess
@@ -105,20 +105,31 @@ class Kate:
         scripts.mkdir(parents=True, exist_ok=True)
         shutil.copy(COMMANDS_JS, scripts / "calami_test.js")
 
+    @staticmethod
+    def _unused_display() -> int:
+        """A display number no X server on this machine uses, by lock file or
+        by socket (/proc/net/unix also lists the abstract sockets of X servers
+        started by others in their own /tmp)."""
+        sockets = Path("/proc/net/unix").read_text(encoding="utf-8", errors="replace")
+        for number in random.sample(range(200, 1000), 100):
+            if not Path(f"/tmp/.X{number}-lock").exists() and f"/.X11-unix/X{number}\n" not in sockets:
+                return number
+        raise AssertionError("no free X display number")
+
     def _start_display(self) -> bool:
-        """An Xvfb of our own that answers; False to try again (a display
-        number raced with another X server on this machine)."""
-        read, write = os.pipe()
+        """An Xvfb of our own that answers; False to try again."""
+        number = self._unused_display()
         self.xvfb = subprocess.Popen(
-            ["Xvfb", "-displayfd", str(write), "-screen", "0", "1280x900x24", "-nolisten", "tcp",
+            ["Xvfb", f":{number}", "-screen", "0", "1280x900x24", "-nolisten", "tcp",
              "-fbdir", str(self.tmp_path)],  # the screen as an XWD file, Xvfb_screen0, to look at after a failure
-            pass_fds=(write,), stdin=subprocess.DEVNULL, stdout=subprocess.DEVNULL, stderr=subprocess.DEVNULL,
+            stdin=subprocess.DEVNULL, stdout=subprocess.DEVNULL, stderr=subprocess.DEVNULL,
         )
-        os.close(write)
-        with os.fdopen(read) as pipe:
-            display = pipe.readline().strip()
-        self.env["DISPLAY"] = f":{display}"
-        answers = bool(display) and subprocess.run(
+        self.env["DISPLAY"] = f":{number}"
+        socket = Path(f"/tmp/.X11-unix/X{number}")
+        deadline = time.monotonic() + self.timeout
+        while not socket.exists() and self.xvfb.poll() is None and time.monotonic() < deadline:
+            time.sleep(0.1)
+        answers = socket.exists() and subprocess.run(
             ["xdotool", "getdisplaygeometry"], env=self.env, stdin=subprocess.DEVNULL,
             capture_output=True, timeout=60).returncode == 0
         if answers and self.xvfb.poll() is None:

@@ -161,7 +161,7 @@ Returns (PROMPT TITLES PREFERRED-TITLES)."
                                 t))
     (driver-put 'diagnostics_after_fix (vconcat (driver-diagnostics))))
 
-  ;; "Add to the project's list" on a second word.
+  ;; "Add to the project lexicon" on a second word.
   (let* ((title (getenv "CALAMI_TEST_ADD_TITLE"))
          (word-list (getenv "CALAMI_TEST_WORD_LIST"))
          (listed-before (and (file-exists-p word-list)

@@ -1,7 +1,7 @@
 -- Drives headless Neovim for tests/editors/test_neovim.py: opens the demo
 -- files, waits for calami's diagnostics, applies the preferred fix with the
 -- shipped config's :CalamiFix and writes everything it saw to a JSON file.
--- Then it picks "add to the project's list" for a second word from the
+-- Then it picks "add to the project lexicon" for a second word from the
 -- menu of vim.lsp.buf.code_action() (vim.ui.select, answered as a user would).
 -- Environment: CALAMI_TEST_OUT (JSON path), CALAMI_TEST_FILES (paths
 -- separated by '|'; the first is the one fixed), CALAMI_TEST_FIX and
@@ -145,7 +145,7 @@ local function run()
     diagnostics_after = calami_diagnostics(bufnr),
   }
 
-  -- "Add to the project's list": the code-action menu, the entry by title.
+  -- "Add to the project lexicon": the code-action menu, the entry by title.
   local title = vim.env.CALAMI_TEST_ADD_TITLE
   local word_list = vim.env.CALAMI_TEST_WORD_LIST
   local listed_before = read_file(word_list)

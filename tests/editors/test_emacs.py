@@ -17,7 +17,7 @@ from pathlib import Path
 import pytest
 
 from editor_support import (
-    EDITOR_CONFIGS, PROJECT_WORD_TITLE, REPLACE_TITLE, check_word_added, copy_demo, isolated_env, missing_model,
+    EDITOR_CONFIGS, project_word_title, REPLACE_TITLE, check_word_added, copy_demo, isolated_env, missing_model,
     path_without_calami, planted_mistakes, project_word_list, replaced, server_command, word_actions,
 )
 
@@ -84,7 +84,7 @@ def test_emacs_eglot_shows_the_demo_hints_and_applies_the_preferred_fix(tmp_path
         CALAMI_EMACS_CMD=" ".join(command),
         CALAMI_TEST_FIX=f"{target.line}:{target.char_col}",
         CALAMI_TEST_ADD=f"{added.line}:{added.char_col}",
-        CALAMI_TEST_ADD_TITLE=PROJECT_WORD_TITLE.format(word=added.word),
+        CALAMI_TEST_ADD_TITLE=project_word_title(added.word),
         CALAMI_TEST_WORD_LIST=str(word_list),
     )
     assert result["managed"], f"Eglot did not start calami: {proc.stderr}"
@@ -123,7 +123,7 @@ def test_emacs_eglot_shows_the_demo_hints_and_applies_the_preferred_fix(tmp_path
     assert result["recorded"], "the accepted fix never reached the profile"
     assert dict(Profile(tmp_path / "profile").corrections(target.word)) == {target.intended: 1}
 
-    # "Add to the project's list" on the second word, from the same menu.
+    # "Add to the project lexicon" on the second word, from the same menu.
     assert result["add_menu_choices"][-3:] == word_actions(added.word)
     assert result["word_list_written"], f"{word_list} did not change"
     check_word_added(listed_before, word_list.read_text(encoding="utf-8"), added.word)

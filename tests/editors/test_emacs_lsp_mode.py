@@ -5,7 +5,7 @@ lsp-mode, `lsp-deferred' on markdown-mode-hook) with the venv's calami as
 `lsp-calami-server-command' (the documented override), opens the demo
 README, waits for the Flymake diagnostics lsp-mode makes from calami's, and
 picks from `lsp-execute-code-action''s menu: the preferred fix on one word,
-"add to the project's list" on another.  Expected hints: demo/EXPECTED.md's
+"add to the project lexicon" on another.  Expected hints: demo/EXPECTED.md's
 rows for the file.  The two failure tests start Emacs the same way without
 calami on PATH, and with the model missing, and check what the user is told.
 """
@@ -20,7 +20,7 @@ from pathlib import Path
 import pytest
 
 from editor_support import (
-    EDITOR_CONFIGS, PROJECT_WORD_TITLE, REPLACE_TITLE, check_word_added, copy_demo, isolated_env,
+    EDITOR_CONFIGS, project_word_title, REPLACE_TITLE, check_word_added, copy_demo, isolated_env,
     missing_model, path_without_calami, planted_mistakes, project_word_list, replaced, server_command,
     word_actions,
 )
@@ -90,7 +90,7 @@ def test_lsp_mode_shows_the_demo_hints_applies_the_preferred_fix_and_adds_a_word
         CALAMI_EMACS_CMD=" ".join(command),
         CALAMI_TEST_FIX=f"{target.line}:{target.char_col}",
         CALAMI_TEST_ADD=f"{added.line}:{added.char_col}",
-        CALAMI_TEST_ADD_TITLE=PROJECT_WORD_TITLE.format(word=added.word),
+        CALAMI_TEST_ADD_TITLE=project_word_title(added.word),
         CALAMI_TEST_WORD_LIST=str(word_list),
     )
     assert result["started"], f"lsp-mode did not start calami: {proc.stderr}"
@@ -128,7 +128,7 @@ def test_lsp_mode_shows_the_demo_hints_applies_the_preferred_fix_and_adds_a_word
     assert result["recorded"], "the accepted fix never reached the profile"
     assert dict(Profile(tmp_path / "profile").corrections(target.word)) == {target.intended: 1}
 
-    # "Add to the project's list" on the second word: the file gains it, the
+    # "Add to the project lexicon" on the second word: the file gains it, the
     # hint goes, the buffer is untouched by it and nothing was saved.
     assert result["add_menu_choices"][-3:] == word_actions(added.word)
     assert result["word_list_written"], f"{word_list} did not change"

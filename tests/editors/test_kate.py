@@ -17,7 +17,7 @@ from pathlib import Path
 import pytest
 
 from editor_support import (
-    EDITOR_CONFIGS, PROJECT_WORD_TITLE, REPLACE_TITLE, check_word_added, copy_demo, isolated_env,
+    EDITOR_CONFIGS, project_word_title, REPLACE_TITLE, check_word_added, copy_demo, isolated_env,
     missing_model, planted_mistakes, project_word_list, replaced, server_command, word_actions,
 )
 from kate_support import Kate, Tap, missing_programs, tap_command, wait_until
@@ -118,9 +118,9 @@ def test_kate_shows_the_demo_hints_applies_the_preferred_fix_and_adds_a_word(tmp
     wait_until(lambda: (tmp_path / "profile" / "profile.msgpack").exists(), TIMEOUT, "the profile")
     assert dict(Profile(tmp_path / "profile").corrections(target.word)) == {target.intended: 1}
 
-    # "Add to the project's list" on the second word.
+    # "Add to the project lexicon" on the second word.
     kate.goto(added.line - 1, added.char_col)
-    title = PROJECT_WORD_TITLE.format(word=added.word)
+    title = project_word_title(added.word)
     _, actions, index = kate.pick_code_action(tap, lambda acts: [a["title"] for a in acts].index(title))
     assert [a["title"] for a in actions][-3:] == word_actions(added.word)
     wait_until(lambda: word_list.exists() and word_list.read_text(encoding="utf-8") != listed_before,

@@ -17,7 +17,7 @@ from pathlib import Path
 import pytest
 
 from editor_support import (
-    EDITOR_CONFIGS, PROJECT_WORD_TITLE, check_word_added, copy_demo, isolated_env, missing_model,
+    EDITOR_CONFIGS, project_word_title, check_word_added, copy_demo, isolated_env, missing_model,
     path_without_calami, planted_mistakes, project_word_list, replaced, server_command, word_actions,
 )
 
@@ -77,7 +77,7 @@ def test_neovim_shows_the_demo_hints_and_applies_the_preferred_fix(tmp_path):
         tmp_path, demo, files,
         CALAMI_TEST_FIX=f"{target.line - 1}:{target.byte_col}",
         CALAMI_TEST_ADD=f"{added.line - 1}:{added.byte_col}",
-        CALAMI_TEST_ADD_TITLE=PROJECT_WORD_TITLE.format(word=added.word),
+        CALAMI_TEST_ADD_TITLE=project_word_title(added.word),
         CALAMI_TEST_WORD_LIST=str(word_list),
     )
     errors = [m["msg"] for m in result["messages"] if m["level"] == 4]  # vim.log.levels.ERROR
@@ -117,7 +117,7 @@ def test_neovim_shows_the_demo_hints_and_applies_the_preferred_fix(tmp_path):
     assert fix["recorded"], "the accepted fix never reached the profile"
     assert dict(Profile(tmp_path / "profile").corrections(target.word)) == {target.intended: 1}
 
-    # "Add to the project's list" from vim.lsp.buf.code_action()'s menu.
+    # "Add to the project lexicon" from vim.lsp.buf.code_action()'s menu.
     add = result["add"]
     assert add["shown"], "vim.lsp.buf.code_action() showed no menu"
     assert add["menu"][-3:] == word_actions(added.word), add["menu"]
