@@ -121,6 +121,7 @@ class Kate:
         number = self._unused_display()
         self.xvfb = subprocess.Popen(
             ["Xvfb", f":{number}", "-screen", "0", "1280x900x24", "-nolisten", "tcp",
+             "-noreset",  # else Xvfb resets when our check disconnects, and Kate may find no display
              "-fbdir", str(self.tmp_path)],  # the screen as an XWD file, Xvfb_screen0, to look at after a failure
             stdin=subprocess.DEVNULL, stdout=subprocess.DEVNULL, stderr=subprocess.DEVNULL,
         )
@@ -177,6 +178,22 @@ class Kate:
     def focus(self) -> None:
         self.xdotool("windowfocus", "--sync", self.window)
 
+    def focus_text(self) -> None:
+        """The keyboard to the text: Kate may have moved it to a tool view
+        (its Output view opens when the server logs a message)."""
+        self.focus()
+        self.xdotool("mousemove", "--window", self.window, str(WINDOW_SIZE[0] // 2), "250", "click", "1")
+        time.sleep(0.2)
+
+    def keep_screen(self) -> Path:
+        """A copy of the screen (XWD) that outlives Xvfb, for a failure message."""
+        target = self.tmp_path / "screen-at-failure.xwd"
+        try:
+            shutil.copy(self.tmp_path / "Xvfb_screen0", target)
+        except OSError:
+            pass
+        return target
+
     def keys(self, *keys: str) -> None:
         self.xdotool("key", "--clearmodifiers", *keys)
 
@@ -184,7 +201,7 @@ class Kate:
         """Run a command on Kate's command line (F7); its printed state."""
         for _attempt in range(3):  # a key lost while Kate was busy: type it again
             seen = len(self.states())
-            self.focus()
+            self.focus_text()
             self.keys("F7")
             time.sleep(1.0)  # the command line must have the keyboard before we type
             self.xdotool("type", "--delay", "30", text)
@@ -193,8 +210,7 @@ class Kate:
                 return wait_until(lambda: self.states()[seen:] and self.states()[seen], self.timeout / 3, f"'{text}'")
             except AssertionError:
                 self.keys("Escape", "Escape")
-        raise AssertionError(f"Kate never ran '{text}' (screen: {self.tmp_path / 'Xvfb_screen0'}): "
-                             f"{self.stderr_tail()}")
+        raise AssertionError(f"Kate never ran '{text}' (screen: {self.keep_screen()}): {self.stderr_tail()}")
 
     def states(self) -> list[dict]:
         text = self.stderr_path.read_text(encoding="utf-8", errors="replace") if self.stderr_path.exists() else ""
@@ -205,16 +221,24 @@ class Kate:
         assert (state["line"], state["column"]) == (line, column), state
         return state
 
-    def pick_code_action(self, tap: Tap, choose: Callable[[list[dict]], int]) -> tuple[dict, list[dict], int]:
-        """Alt+Return (LSP Client > Code Action) at the cursor, then the entry
-        `choose` names by its index in calami's answer.  Returns Kate's
-        request, calami's actions and the index picked."""
-        asked = len(tap.from_editor("textDocument/codeAction"))
+    def pick_code_action(self, tap: Tap, line: int, column: int,
+                         choose: Callable[[list[dict]], int]) -> tuple[dict, list[dict], int]:
+        """Cursor to (line, column), Alt+Return (LSP Client > Code Action),
+        then the entry `choose` names by its index in calami's answer.
+        Returns Kate's request, calami's actions and the index picked."""
         windows = len(self._visible_windows())
-        self.focus()
-        self.keys("alt+Return")
-        request = wait_until(lambda: tap.from_editor("textDocument/codeAction")[asked:], self.timeout,
-                             "Kate's code action request")[0]
+        for _attempt in range(3):  # the keyboard taken away before Alt+Return arrived: again
+            asked = len(tap.from_editor("textDocument/codeAction"))
+            self.goto(line, column)
+            self.keys("alt+Return")
+            try:
+                request = wait_until(lambda: tap.from_editor("textDocument/codeAction")[asked:], self.timeout / 3,
+                                     "Kate's code action request")[0]
+                break
+            except AssertionError:
+                continue
+        else:
+            raise AssertionError(f"Kate sent no code action request (screen: {self.keep_screen()})")
         actions = wait_until(lambda: tap.response(request["id"]), self.timeout, "calami's code actions")["result"]
         wait_until(lambda: len(self._visible_windows()) > windows, self.timeout, "the code action menu")
         time.sleep(0.5)  # the menu is mapped; let it take the keyboard

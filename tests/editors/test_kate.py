@@ -95,11 +95,9 @@ def test_kate_shows_the_demo_hints_applies_the_preferred_fix_and_adds_a_word(tmp
 
     # The preferred fix: cursor on the word, Alt+Return, the entry calami
     # marked preferred (the first one, since calami lists it first).
-    kate.goto(target.line - 1, target.char_col)
-    assert not tap.from_editor("textDocument/didChange"), "keys meant for Kate's command line went into the text"
-
     request, actions, index = kate.pick_code_action(
-        tap, lambda acts: next(i for i, a in enumerate(acts) if a.get("isPreferred")))
+        tap, target.line - 1, target.char_col,
+        lambda acts: next(i for i, a in enumerate(acts) if a.get("isPreferred")))
     assert request["params"]["range"]["start"]["line"] == target.line - 1  # Kate asks for the cursor's line
     assert index == 0 and actions[0]["title"] == REPLACE_TITLE.format(word=target.intended)
     assert [a["title"] for a in actions][-3:] == word_actions(target.word)
@@ -119,9 +117,9 @@ def test_kate_shows_the_demo_hints_applies_the_preferred_fix_and_adds_a_word(tmp
     assert dict(Profile(tmp_path / "profile").corrections(target.word)) == {target.intended: 1}
 
     # "Add to the project lexicon" on the second word.
-    kate.goto(added.line - 1, added.char_col)
     title = project_word_title(added.word)
-    _, actions, index = kate.pick_code_action(tap, lambda acts: [a["title"] for a in acts].index(title))
+    _, actions, index = kate.pick_code_action(tap, added.line - 1, added.char_col,
+                                              lambda acts: [a["title"] for a in acts].index(title))
     assert [a["title"] for a in actions][-3:] == word_actions(added.word)
     wait_until(lambda: word_list.exists() and word_list.read_text(encoding="utf-8") != listed_before,
                TIMEOUT, f"{word_list} to change")
