@@ -16,6 +16,7 @@ import re
 import shutil
 import subprocess
 import sys
+import tempfile
 import time
 from pathlib import Path
 from typing import Any, Callable
@@ -88,6 +89,7 @@ class Kate:
         self.xvfb: subprocess.Popen | None = None
         self.kate: subprocess.Popen | None = None
         self.window = ""
+        self.runtime_dir = ""
 
     # --- set-up -------------------------------------------------------------
     def configure(self, settings: dict, allowed_command: list[str]) -> None:
@@ -139,6 +141,11 @@ class Kate:
         return False
 
     def start(self, cwd: Path, file: str) -> None:
+        # KIO puts sockets in XDG_RUNTIME_DIR; a socket path must stay under
+        # 108 bytes, which pytest's temporary folders can pass.  (Kate then
+        # shows a modal "Unable to create KIO worker" box.)
+        self.runtime_dir = tempfile.mkdtemp(prefix="calami-kate-")
+        self.env["XDG_RUNTIME_DIR"] = self.runtime_dir
         assert any(self._start_display() for _attempt in range(5)), "Xvfb did not start"
         with self.stderr_path.open("wb") as err:
             self.kate = subprocess.Popen(["kate", "-n", file], cwd=cwd, env=self.env,
@@ -156,6 +163,11 @@ class Kate:
                 except subprocess.TimeoutExpired:
                     proc.kill()
                     proc.wait(timeout=15)
+
+    def close(self) -> None:
+        self.stop()
+        if self.runtime_dir:
+            shutil.rmtree(self.runtime_dir, ignore_errors=True)
 
     # --- input --------------------------------------------------------------
     def xdotool(self, *args: str) -> str:

@@ -52,7 +52,7 @@ def kate_session(tmp_path):
 
     yield start
     for kate in sessions:
-        kate.stop()
+        kate.close()
 
 
 def test_kate_shows_the_demo_hints_applies_the_preferred_fix_and_adds_a_word(tmp_path, kate_session):
