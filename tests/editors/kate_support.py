@@ -159,7 +159,7 @@ class Kate:
             if proc is not None and proc.poll() is None:
                 proc.terminate()
                 try:
-                    proc.wait(timeout=15)
+                    proc.wait(timeout=3)  # Kate with an unsaved buffer asks before closing: then kill
                 except subprocess.TimeoutExpired:
                     proc.kill()
                     proc.wait(timeout=15)
