@@ -190,6 +190,28 @@ The server writes one such line, naming the fix, when it cannot start
          (signal (car err) (cdr err)))))))
 
 (advice-add 'eglot :around #'calami-eglot--explain-failure)
+
+(defun calami-eglot--explain-exit (sentinel process event)
+  "Run jsonrpc's SENTINEL for PROCESS and EVENT; name calami's reason on failure.
+A server that dies before it answers `initialize' after the connection
+went on in the background (as with `eglot-ensure') is reported from the
+process sentinel as \"[eglot] -1: Server died\"; when that server was
+calami and wrote its \"calami: ...\" line, that line is the error instead."
+  (condition-case err
+      (funcall sentinel process event)
+    (error
+     (let* ((stderr (process-get process 'jsonrpc-stderr))
+            (reason (and (buffer-live-p stderr)
+                         (with-current-buffer stderr
+                           (save-excursion
+                             (goto-char (point-max))
+                             (and (re-search-backward "^calami: .*$" nil t)
+                                  (match-string 0)))))))
+       (if reason
+           (error "%s" reason)
+         (signal (car err) (cdr err)))))))
+
+(advice-add 'jsonrpc--process-sentinel :around #'calami-eglot--explain-exit)
 (calami-eglot-register)
 ;; Eglot reads `eglot-workspace-configuration' buffer-locally (directory
 ;; variables can override it); the default value gets the calami section.

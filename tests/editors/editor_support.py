@@ -82,3 +82,76 @@ def replaced(lines: list[str], line: int, col: int, old: str, new: str) -> list[
     text = lines[line]
     assert text[col:col + len(old)] == old, (text, col, old)
     return lines[:line] + [text[:col] + new + text[col + len(old):]] + lines[line + 1:]
+
+
+# --- what the tests look for in the editors' menus and files --------------
+# The quick-fix titles the server offers, kept here in one place so that a
+# renamed label touches one line; the project lexicon's comes from
+# calami.lsp.actions itself.
+REPLACE_TITLE = "Replace with '{word}'"
+USER_WORD_TITLE = "Add '{word}' to my words"
+IGNORE_TITLE = "Ignore '{word}' in this document"
+
+
+def project_word_title(word: str) -> str:
+    """The title of "add `word` to the project lexicon"."""
+    from calami.lsp.actions import add_to_lexicon_title
+
+    return add_to_lexicon_title(word)
+
+
+def word_actions(word: str) -> list[str]:
+    """The menu's last entries for a flagged word, in the server's order."""
+    return [project_word_title(word), USER_WORD_TITLE.format(word=word), IGNORE_TITLE.format(word=word)]
+
+
+def project_word_list(root: Path) -> Path:
+    """The file "add to the project lexicon" edits, as the server's own project code names it."""
+    from calami.vocab.project import Project
+
+    return Path(Project(root).word_list_path)
+
+
+def check_word_added(before: str | None, after: str, word: str) -> None:
+    """`after` is `before` with one more line, `word`, and nothing lost."""
+    old = (before or "").splitlines()
+    new = after.splitlines()
+    assert sorted(set(new) - set(old)) == [word], (old, new)
+    assert len(new) == len(old) + 1, (old, new)
+    kept = iter(new)
+    assert all(line in kept for line in old), (old, new)  # the old lines, in their order
+
+
+def path_without_calami() -> str:
+    """PATH with every folder that holds a `calami` program left out."""
+    keep = [d for d in os.environ.get("PATH", "").split(os.pathsep)
+            if d and not shutil.which("calami", path=d)]
+    return os.pathsep.join(keep)
+
+
+def missing_model(tmp_path: Path) -> tuple[dict[str, str], str]:
+    """Environment changes that make the model missing, and the line calami
+    itself prints then (asked from `calami serve`, not written down here)."""
+    import subprocess
+
+    change = {"CALAMI_MODEL": str(tmp_path / "no-such-model.msgpack")}
+    proc = subprocess.run(server_command(), env={**os.environ, **change}, stdin=subprocess.DEVNULL,
+                          capture_output=True, text=True, timeout=60)
+    assert proc.returncode == 2, (proc.returncode, proc.stderr)
+    lines = [line for line in proc.stderr.splitlines() if line.startswith("calami: ")]
+    assert len(lines) == 1 and "model" in lines[0], proc.stderr
+    return change, lines[0]
+
+
+def server_defaults() -> dict:
+    """The server's own setting defaults (calami.lsp.settings), under the names editors send."""
+    from calami.lsp.settings import Settings
+
+    d = Settings()
+    return {
+        "variant": d.variant, "hintThreshold": d.hint_threshold, "confidentThreshold": d.confident_threshold,
+        "severity": {"nonword": d.severity_nonword, "realword": d.severity_realword},
+        "maxSuggestions": d.max_suggestions, "checkStrings": d.check_strings, "debounceMs": d.debounce_ms,
+        "modelPath": d.model_path, "wordList": d.word_list,
+    }
+

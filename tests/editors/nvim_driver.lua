@@ -1,10 +1,15 @@
 -- Drives headless Neovim for tests/editors/test_neovim.py: opens the demo
 -- files, waits for calami's diagnostics, applies the preferred fix with the
 -- shipped config's :CalamiFix and writes everything it saw to a JSON file.
+-- Then it picks "add to the project lexicon" for a second word from the
+-- menu of vim.lsp.buf.code_action() (vim.ui.select, answered as a user would).
 -- Environment: CALAMI_TEST_OUT (JSON path), CALAMI_TEST_FILES (paths
--- separated by '|'; the first is the one fixed), CALAMI_TEST_FIX ("line:col",
--- 0-based line and byte column of the word to fix), CALAMI_TEST_TIMEOUT_MS
--- (one budget for all the waiting together).
+-- separated by '|'; the first is the one fixed), CALAMI_TEST_FIX and
+-- CALAMI_TEST_ADD ("line:col", 0-based line and byte column of the word to
+-- fix / to add), CALAMI_TEST_ADD_TITLE (the menu entry to pick),
+-- CALAMI_TEST_WORD_LIST (the file it edits), CALAMI_TEST_SCENARIO ("full",
+-- or "start-only": open the first file and report what the user is told),
+-- CALAMI_TEST_TIMEOUT_MS (one budget for all the waiting together).
 local out_path = vim.env.CALAMI_TEST_OUT
 local files = vim.split(vim.env.CALAMI_TEST_FILES, '|', { plain = true })
 local deadline = vim.loop.now() + tonumber(vim.env.CALAMI_TEST_TIMEOUT_MS or '60000')
@@ -62,7 +67,30 @@ local function calami_diagnostics(bufnr)
   return out
 end
 
+local function read_file(path)
+  local file = io.open(path, 'r')
+  if not file then return nil end
+  local text = file:read('*a')
+  file:close()
+  return text
+end
+
+-- Open the first file and wait until the user has been told something.
+local function run_start_only()
+  vim.cmd('edit ' .. vim.fn.fnameescape(files[1]))
+  vim.wait(math.max(0, deadline - vim.loop.now()), function()
+    for _, m in ipairs(result.messages) do
+      if type(m.msg) == 'string' and m.msg:match('^calami: ') then return true end
+    end
+    return false
+  end, 50)
+  result.attached = calami.client(0) ~= nil
+end
+
 local function run()
+  if vim.env.CALAMI_TEST_SCENARIO == 'start-only' then
+    return run_start_only()
+  end
   local buffers = {}
   for _, path in ipairs(files) do
     vim.cmd('edit ' .. vim.fn.fnameescape(path))
@@ -114,6 +142,46 @@ local function run()
     lines_before = before,
     lines_after = vim.api.nvim_buf_get_lines(bufnr, 0, -1, false),
     modified = vim.bo[bufnr].modified,
+    diagnostics_after = calami_diagnostics(bufnr),
+  }
+
+  -- "Add to the project lexicon": the code-action menu, the entry by title.
+  local title = vim.env.CALAMI_TEST_ADD_TITLE
+  local word_list = vim.env.CALAMI_TEST_WORD_LIST
+  local listed_before = read_file(word_list)
+  local add_line, add_col = vim.env.CALAMI_TEST_ADD:match('^(%d+):(%d+)$')
+  add_line, add_col = tonumber(add_line), tonumber(add_col)
+  vim.api.nvim_win_set_cursor(0, { add_line + 1, add_col })
+  local menu = nil
+  vim.ui.select = function(items, opts, on_choice)
+    menu = {}
+    local picked = nil
+    for index, item in ipairs(items) do
+      local text = opts.format_item and opts.format_item(item) or tostring(item)
+      table.insert(menu, text)
+      local action = item[2] or item.action or item  -- 0.7: {client_id, action}
+      if action.title == title and not picked then picked = index end
+    end
+    if picked then on_choice(items[picked], picked) else on_choice(nil, nil) end
+  end
+  vim.lsp.buf.code_action()
+  local shown = wait_for(function() return menu ~= nil end)
+  local written = wait_for(function()
+    local now = read_file(word_list)
+    return now ~= nil and now ~= listed_before
+  end)
+  local add_rechecked = wait_for(function()
+    for _, d in ipairs(calami_diagnostics(bufnr)) do
+      if d.lnum == add_line and d.col == add_col then return false end
+    end
+    return #calami_diagnostics(bufnr) > 0
+  end)
+  result.add = {
+    menu = menu or vim.NIL,
+    shown = shown,
+    written = written,
+    rechecked = add_rechecked,
+    lines_after = vim.api.nvim_buf_get_lines(bufnr, 0, -1, false),
     diagnostics_after = calami_diagnostics(bufnr),
   }
 end
