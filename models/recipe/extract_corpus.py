@@ -63,7 +63,7 @@ def page_prose(job: tuple[str, str]) -> list[tuple[str, int]]:
     elif kind == "py":
         found = [clean(markup_to_prose(p)) for p in source_paragraphs(text)]
     else:
-        found = [clean(markup_to_prose(p)) for p in comment_paragraphs(text)]
+        found = [clean(markup_to_prose(p)) for p in comment_paragraphs(text, generated=kind == "go-generated")]
     out = []
     for para in found:
         if "\ufffd" in para:

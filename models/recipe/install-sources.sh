@@ -78,7 +78,6 @@ python-tables-doc
 python-tornado-doc
 python-werkzeug-doc
 python-xarray-doc
-python3-azure
 python3-botocore
 python3-matplotlib
 python3-nltk

@@ -25,7 +25,7 @@ COMMON_EXCLUDE = re.compile(
 )
 
 
-SUFFIXES = {"html": (".html", ".htm", ".html.gz"), "go": (".go",), "rust": (".rs",), "py": (".py",),
+SUFFIXES = {"html": (".html", ".htm", ".html.gz"), "go": (".go",), "rust": (".rs",), "py": (".py",), "go-generated": (".go",),
             "wordnet": (".noun", ".verb", ".adj", ".adv"), "json-doc": ("service-2.json", "service-2.json.gz")}
 
 
@@ -205,11 +205,11 @@ SOURCES += [
            notes="documentation strings of the newest version of each service description", kind="json-doc"),
     *(
         Source(f"go-{name}", package, licence, (f"{GOCODE}/{root}",), exclude=r"_test\.go$|/testdata/|/vendor/",
-               notes="comment prose", kind="go")
-        for name, package, licence, root in (
-            ("google-api", "golang-google-api-dev", "BSD-3-Clause", "google.golang.org/api"),
-            ("genproto", "golang-google-genproto-dev", "Apache-2.0", "google.golang.org/genproto"),
-            ("google-cloud", "golang-google-cloud-dev", "Apache-2.0", "cloud.google.com/go"),
+               notes="comment prose" + (", generated files included (API clients)" if kind != "go" else ""), kind=kind)
+        for name, package, licence, root, kind in (
+            ("google-api", "golang-google-api-dev", "BSD-3-Clause", "google.golang.org/api", "go-generated"),
+            ("genproto", "golang-google-genproto-dev", "Apache-2.0", "google.golang.org/genproto", "go-generated"),
+            ("google-cloud", "golang-google-cloud-dev", "Apache-2.0", "cloud.google.com/go", "go"),
         )
     ),
     *(
@@ -219,7 +219,6 @@ SOURCES += [
             ("numpy", "python3-numpy", "BSD-3-Clause"),
             ("matplotlib", "python3-matplotlib", "PSF-style (matplotlib licence)"),
             ("nltk", "python3-nltk", "Apache-2.0"),
-            ("azure", "python3-azure", "MIT"),
         )
     ),
 ]

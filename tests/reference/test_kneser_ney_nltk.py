@@ -1,6 +1,6 @@
 """Kneser-Ney trigram probabilities against nltk.lm.KneserNeyInterpolated (order 3).
 
-Corpus: the first 300 held-out SQLite documentation sentences
+Corpus: the first 120 held-out SQLite documentation sentences
 (tests/data/heldout-prose, public domain), tokenized with our tokenizer.
 nltk is an independent implementation of interpolated Kneser-Ney; with the
 same discount at both orders and without our prior/pruning extensions the two
@@ -29,7 +29,7 @@ DATA = Path(__file__).resolve().parents[1] / "data" / "heldout-prose" / "sqlite-
 
 @pytest.fixture(scope="module")
 def corpus():
-    lines = DATA.read_text(encoding="utf-8").splitlines()[:300]
+    lines = DATA.read_text(encoding="utf-8").splitlines()[:120]
     sents = []
     for line in lines:
         for s in sentences(tokenize(line)):

@@ -24,8 +24,7 @@ back-off weight is exactly 1).
 
 Storage is compact: sorted machine arrays (``array``), no dict of tuples.
 Bigrams are per-context rows of sorted successor ids (CSR); trigram contexts
-are a sorted array of keys ``u * V + v``, each with a row of sorted
-successor ids.  Sentences are padded ``<s> <s> w1 ... wn </s>``.
+(u, v) are rows of sorted v per u, each with a row of sorted successor ids.  Sentences are padded ``<s> <s> w1 ... wn </s>``.
 """
 
 from __future__ import annotations
@@ -50,15 +49,16 @@ class LanguageModel:
     bi_start: array  # 'I', vocab_size + 1
     bi_col: array  # 'I', successor ids, sorted within a row
     bi_cnt: array  # 'I', N1+(. v w)
-    tri_ctx: array  # 'Q', sorted keys u * vocab_size + v of contexts with stored trigrams
+    tri_ctx_start: array  # 'I', vocab_size + 1: contexts (u, v) with stored trigrams, per u
+    tri_ctx_v: array  # 'I', their v, sorted within a row
     tri_total: array  # 'I', c(u v .)
     tri_gamma: array  # 'd', g3(u v)
-    tri_start: array  # 'I', len(tri_ctx) + 1
+    tri_start: array  # 'I', len(tri_ctx_v) + 1
     tri_col: array  # 'I', successor ids, sorted within a row
     tri_cnt: array  # 'I', c(u v w)
 
     ARRAYS = ("cont", "prior", "bi_total", "bi_gamma", "bi_start", "bi_col", "bi_cnt",
-              "tri_ctx", "tri_total", "tri_gamma", "tri_start", "tri_col", "tri_cnt")
+              "tri_ctx_start", "tri_ctx_v", "tri_total", "tri_gamma", "tri_start", "tri_col", "tri_cnt")
     SCALARS = ("vocab_size", "d2", "d3", "lam", "cont_total")
 
     def unigram(self, w: int) -> float:
@@ -92,10 +92,12 @@ class LanguageModel:
         p2 = self.prob(w, v)
         if u is None or v is None:
             return p2
-        key = u * self.vocab_size + v
-        ctx = self.tri_ctx
-        j = bisect.bisect_left(ctx, key)
-        if j == len(ctx) or ctx[j] != key:
+        lo, hi = self.tri_ctx_start[u], self.tri_ctx_start[u + 1]
+        if lo == hi:
+            return p2
+        ctx = self.tri_ctx_v
+        j = bisect.bisect_left(ctx, v, lo, hi)
+        if j == hi or ctx[j] != v:
             return p2
         lo, hi = self.tri_start[j], self.tri_start[j + 1]
         col = self.tri_col
@@ -148,7 +150,7 @@ class LanguageModel:
         return out
 
     def sizes(self) -> dict[str, int]:
-        return {"bigrams_stored": len(self.bi_col), "trigram_contexts": len(self.tri_ctx),
+        return {"bigrams_stored": len(self.bi_col), "trigram_contexts": len(self.tri_ctx_v),
                 "trigrams_stored": len(self.tri_col)}
 
 
@@ -224,7 +226,7 @@ def estimate_discount(counts: Sequence[int] | "object") -> float:
 
 def _arr(typecode: str, values) -> array:
     out = array(typecode)
-    out.frombytes(values.astype({"I": "<u4", "Q": "<u8", "d": "<f8"}[typecode]).tobytes())
+    out.frombytes(values.astype({"I": "<u4", "d": "<f8"}[typecode]).tobytes())
     return out
 
 
@@ -272,6 +274,8 @@ def build_language_model(
     has = stored_per_ctx > 0
     tri_gamma = 1.0 - kept3[has] / ctx_total[has]
     u, v = ctx_keys[has] // B, ctx_keys[has] % B
+    tri_ctx_start = np.zeros(V + 1, dtype=np.int64)
+    np.cumsum(np.bincount(u, minlength=V)[:V], out=tri_ctx_start[1:])
     tri_start = np.zeros(int(has.sum()) + 1, dtype=np.int64)
     np.cumsum(stored_per_ctx[has], out=tri_start[1:])
 
@@ -282,7 +286,7 @@ def build_language_model(
         cont=_arr("I", cont), cont_total=cont_total, prior=prior_arr,
         bi_total=_arr("I", bi_total.astype(np.int64)), bi_gamma=_arr("d", bi_gamma),
         bi_start=_arr("I", bi_start), bi_col=_arr("I", bw[keep2]), bi_cnt=_arr("I", bi_n[keep2]),
-        tri_ctx=_arr("Q", u * V + v), tri_total=_arr("I", ctx_total[has].astype(np.int64)),
+        tri_ctx_start=_arr("I", tri_ctx_start), tri_ctx_v=_arr("I", v), tri_total=_arr("I", ctx_total[has].astype(np.int64)),
         tri_gamma=_arr("d", tri_gamma), tri_start=_arr("I", tri_start),
         tri_col=_arr("I", tri[keep3] % B), tri_cnt=_arr("I", tri_n[keep3]),
     )
