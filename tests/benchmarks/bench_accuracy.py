@@ -50,16 +50,10 @@ def calami_top(checker: Checker, typed: str, k: int = 3) -> list[str]:
 TARGETS = {"wikipedia-mitton": 92.0, "toefl-spell": 90.0, "srcd-identifier-typos": 88.0}
 
 
-def score(checker: Checker, keys, prior, pairs) -> tuple[int, int, int, int]:
-    b1 = b3 = c1 = c3 = 0
-    for typed, correct in pairs:
-        base = baseline_top(typed, keys, prior)
-        ours = calami_top(checker, typed)
-        b1 += base[:1] == [correct]
-        b3 += correct in base
-        c1 += ours[:1] == [correct]
-        c3 += correct in ours
-    return b1, b3, c1, c3
+def hits(checker: Checker, keys, prior, typed: str, correct: str) -> tuple[bool, bool, bool, bool]:
+    base = baseline_top(typed, keys, prior)
+    ours = calami_top(checker, typed)
+    return base[:1] == [correct], correct in base, ours[:1] == [correct], correct in ours
 
 
 def evaluate(model_path: str | None, limit: int | None) -> dict:
@@ -73,17 +67,18 @@ def evaluate(model_path: str | None, limit: int | None) -> dict:
     for path in sorted(DATA.glob("*.tsv")):
         dev = split(read_pairs(path))[1][:limit]
         pairs = [(t.lower(), c.lower()) for t, c in dev]
-        reachable = [(t, c) for t, c in pairs if t not in ids and c in ids]
+        scored = [(t not in ids and c in ids, hits(checker, keys, prior, t, c)) for t, c in pairs]
         results[path.stem] = {}
-        for label, subset in (("all", pairs), ("reachable", reachable)):
+        for label in ("all", "reachable"):
+            subset = [h for reachable, h in scored if reachable or label == "all"]
             n = len(subset)
-            b1, b3, c1, c3 = score(checker, keys, prior, subset)
+            b1, b3, c1, c3 = (sum(h[k] for h in subset) for k in range(4))
             pct = lambda x: round(100.0 * x / n, 1) if n else 0.0  # noqa: E731
             target = TARGETS.get(path.stem) if label == "reachable" else None
             mark = "" if target is None else f"{target:>9.1f}{'' if pct(c1) >= target else '!'}"
             below = " BELOW BASELINE" if pct(c1) < pct(b1) else ""
             print(f"{path.stem if label == 'all' else '':<24}{label:<10}{n:>6}{pct(b1):>7.1f}%{pct(b3):>7.1f}%"
-                  f"{pct(c1):>9.1f}%{pct(c3):>9.1f}%{pct(c1) - pct(b1):>+8.1f}{mark:>10}{below}")
+                  f"{pct(c1):>9.1f}%{pct(c3):>9.1f}%{pct(c1) - pct(b1):>+8.1f}{mark:>10}{below}", flush=True)
             results[path.stem][label] = {"n": n, "base1": pct(b1), "base3": pct(b3), "top1": pct(c1), "top3": pct(c3)}
     return results
 
