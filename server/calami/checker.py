@@ -115,7 +115,7 @@ QUESTION_STARTS = frozenset({"is", "are", "do", "does", "did", "can", "will", "s
 
 def _known_context(word_id: int, lexicon) -> bool:
     """A listed word or the sentence's start or end; not code, a URL or an unknown word."""
-    return word_id <= len(lexicon) + 1  # ids past the lexicon: <s>, </s>, then <unk>
+    return word_id <= len(lexicon) + 1  # ids past the lexicon: <s>, </s>, then <unk>, <code>
 
 
 def _irregular_plural(word: str) -> bool:
