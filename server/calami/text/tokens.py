@@ -6,7 +6,7 @@ language model scores words it never saw as such.  One regular expression
 decides which are checkable words and which are technical material that is
 never flagged (URLs, paths, options, identifiers, numbers, hashes).
 
-A token's ``sentence`` number groups tokens for bigram context: context never
+A token's ``sentence`` number groups tokens for n-gram context: context never
 crosses a sentence end or a span that starts a new block.
 """
 
