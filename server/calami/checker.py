@@ -292,7 +292,10 @@ class Checker:
         hyps = self._candidate_hypotheses(w, left, right, core, every_candidate=False)
         if look.other_variant and look.key_id is not None:
             # The project asked for the other spelling variant: keeping this form is a policy breach.
-            h0 = self._h0_known(look.key_id, left, right) + math.log(1e-6)
+            # Its twin in the asked-for variant is the same word, so H0 takes the twin's
+            # context terms: which spelling the corpus used more often must not decide.
+            twins = [c for c, _ in hyps if isinstance(c, int) and lexicon.variant_pair(look.key_id, c)]
+            h0 = self._h0_known(twins[0] if twins else look.key_id, left, right) + math.log(1e-6)
         else:
             h0 = self._h0_unknown(w, left, right, core, capitalised_inside)
         h0 += math.log1p(4.0 * self._ignored(word))
