@@ -153,8 +153,9 @@ def tune_oov(model, sentences, pairs) -> float:
         rate = 1000 * false / clean_words
         recall = found / len(planted)
         print(f"  oov_log_prior {oov:<6} planted non-words found {100 * recall:.1f}%  non-word flags on clean dev text {rate:.2f}/1000 words")
-        # Precision on real projects comes first: at most 0.6 flags per 1,000 clean dev words.
-        if rate <= 0.6 and (best is None or recall > best[0]):
+        # Precision on real projects comes first: at most 0.5 flags per 1,000 clean dev words
+        # (at 1.0, and then 0.6, the false-alarm benchmark showed more findings than before).
+        if rate <= 0.5 and (best is None or recall > best[0]):
             best = (recall, oov)
     return best[1] if best else -6.0
 
