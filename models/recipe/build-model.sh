@@ -5,12 +5,13 @@
 set -eu
 PY=${PYTHON:-.venv/bin/python}
 OUT=${1:-models/calami-en.msgpack}
-CORPUS=$(ls build/corpus/*.txt | grep -v dev-heldout.txt)
-$PY -m calami model build \
+CORPUS_DIR=${CORPUS_DIR:-build/corpus}
+CORPUS=$(ls "$CORPUS_DIR"/*.txt | grep -v dev-heldout.txt)
+$PY -m calami model build --jobs "${JOBS:-2}" \
     --scowl /usr/share/dict/scowl --scowl-size 70 \
     --corpus $CORPUS \
     --pairs models/data/misspellings/*.tsv \
     --sources models/recipe/sources.json \
     -o "$OUT"
-$PY models/recipe/tune_params.py "$OUT" --write
+$PY models/recipe/tune_params.py "$OUT" --dev "$CORPUS_DIR/dev-heldout.txt" --write
 $PY -m calami model info "$OUT" | head -40

@@ -88,9 +88,11 @@ def block_paragraphs(lines: list[str]) -> list[str]:
     return out
 
 
-def comment_paragraphs(source: str) -> list[str]:
-    """Prose paragraphs of the comments of one Go or Rust file (none for generated files)."""
-    if _GENERATED.search(source):
+def comment_paragraphs(source: str, generated: bool = False) -> list[str]:
+    """Prose paragraphs of the comments of one Go or Rust file (none for generated files,
+    unless ``generated``: API clients generated from service descriptions carry their
+    hand-written documentation as comments)."""
+    if not generated and _GENERATED.search(source):
         return []
     out: list[str] = []
     for block in comment_blocks(source):

@@ -25,7 +25,8 @@ COMMON_EXCLUDE = re.compile(
 )
 
 
-SUFFIXES = {"html": (".html", ".htm", ".html.gz"), "go": (".go",), "rust": (".rs",), "py": (".py",)}
+SUFFIXES = {"html": (".html", ".htm", ".html.gz"), "go": (".go",), "rust": (".rs",), "py": (".py",), "go-generated": (".go",),
+            "wordnet": (".noun", ".verb", ".adj", ".adv"), "json-doc": ("service-2.json", "service-2.json.gz")}
 
 
 @dataclass(frozen=True)
@@ -38,7 +39,7 @@ class Source:
     roots: tuple[str, ...]
     exclude: str = ""  # extra regex on the full path
     notes: str = ""
-    kind: str = "html"  # "html" pages, or "go" / "rust" / "py" source files (comment prose)
+    kind: str = "html"  # "html" pages, "go" / "rust" / "py" source files (comment prose), "wordnet", "json-doc"
 
     def files(self) -> Iterator[str]:
         """Pages (or source files) of this source, in a stable order; symlinks are not followed."""
@@ -64,6 +65,27 @@ class Source:
 
 
 RUST = f"{DOC}/rust-doc/html"
+BOTO = "/usr/lib/python3/dist-packages/botocore/data"
+PY3 = "/usr/lib/python3/dist-packages"
+GOCODE = "/usr/share/gocode/src"
+PY_EXCLUDE = r"/(?:tests?|testing|_vendor|vendored|__pycache__)/|/test_[^/]*\.py$"
+
+
+def latest_service_files(root: str) -> tuple[str, ...]:
+    """The newest API version's service description of every botocore service (older ones repeat it)."""
+    out = []
+    if os.path.isdir(root):
+        for service in sorted(os.listdir(root)):
+            folder = os.path.join(root, service)
+            versions = sorted(d for d in os.listdir(folder) if os.path.isdir(os.path.join(folder, d))) \
+                if os.path.isdir(folder) else []
+            for version in reversed(versions):
+                found = [os.path.join(folder, version, n) for n in SUFFIXES["json-doc"]
+                         if os.path.isfile(os.path.join(folder, version, n))]
+                if found:
+                    out.append(found[0])
+                    break
+    return tuple(out)
 
 SOURCES: list[Source] = [
     Source("python3.11", "python3.11-doc", "PSF-2.0", (f"{DOC}/python3.11/html",)),
@@ -160,6 +182,43 @@ SOURCES: list[Source] = [
             ("tokio", "1.24.2"), ("serde", "1.0.152"), ("syn", "1.0.107"), ("regex", "1.7.1"), ("clap", "4.0.32"),
             ("rayon", "1.6.1"), ("hyper", "0.14.19"), ("futures", "0.3.21"), ("itertools", "0.10.3"),
             ("nom", "7.1.1"), ("rand", "0.8.5"), ("chrono", "0.4.23"), ("bytes", "1.2.1"), ("log", "0.4.17"),
+        )
+    ),
+]
+
+# Added for the trigram model (issue 10): everyday English (WordNet glosses and
+# examples), more manuals, API descriptions and docstrings.  Licences checked
+# in each package's /usr/share/doc/<pkg>/copyright ("Files: *" stanza).
+SOURCES += [
+    Source("wordnet", "wordnet-base", "WordNet-3.0 (permissive)",
+           tuple(f"/usr/share/wordnet/data.{pos}" for pos in ("noun", "verb", "adj", "adv")),
+           notes="glosses: definitions and example sentences", kind="wordnet"),
+    Source("twisted", "twisted-doc", "MIT", (f"{DOC}/twisted-doc/html",)),
+    Source("dpdk", "dpdk-doc", "BSD-3-Clause", (f"{DOC}/dpdk/guides",)),
+    Source("skimage", "python-skimage-doc", "BSD-3-Clause", (f"{DOC}/python-skimage-doc/html",)),
+    Source("tables", "python-tables-doc", "BSD-3-Clause", (f"{DOC}/python-tables-doc/html",)),
+    Source("imagemagick", "imagemagick-6-doc", "ImageMagick (Apache-2.0 style)", (f"{DOC}/imagemagick-6-doc/html",)),
+    Source("crystal", "crystal-doc", "Apache-2.0", (f"{DOC}/crystal/api-docs",)),
+    Source("derby", "derby-doc", "Apache-2.0", (f"{DOC}/derby-doc",), notes="javadoc and overview pages"),
+    Source("fop", "fop-doc", "Apache-2.0", (f"{DOC}/fop-doc/html",), notes="javadoc"),
+    Source("botocore", "python3-botocore", "Apache-2.0", latest_service_files(BOTO),
+           notes="documentation strings of the newest version of each service description", kind="json-doc"),
+    *(
+        Source(f"go-{name}", package, licence, (f"{GOCODE}/{root}",), exclude=r"_test\.go$|/testdata/|/vendor/",
+               notes="comment prose" + (", generated files included (API clients)" if kind != "go" else ""), kind=kind)
+        for name, package, licence, root, kind in (
+            ("google-api", "golang-google-api-dev", "BSD-3-Clause", "google.golang.org/api", "go-generated"),
+            ("genproto", "golang-google-genproto-dev", "Apache-2.0", "google.golang.org/genproto", "go-generated"),
+            ("google-cloud", "golang-google-cloud-dev", "Apache-2.0", "cloud.google.com/go", "go"),
+        )
+    ),
+    *(
+        Source(f"py-{name}", package, licence, (f"{PY3}/{name}",), exclude=PY_EXCLUDE,
+               notes="docstrings and comments", kind="py")
+        for name, package, licence in (
+            ("numpy", "python3-numpy", "BSD-3-Clause"),
+            ("matplotlib", "python3-matplotlib", "PSF-style (matplotlib licence)"),
+            ("nltk", "python3-nltk", "Apache-2.0"),
         )
     ),
 ]

@@ -116,7 +116,7 @@ def tune_realword(model, sentences) -> tuple[float, float]:
             model.params.alpha_confusable, model.params.alpha = alpha_conf, alpha
             r = score(Checker(model), corrupted, clean)
             # Margin for the step from dev to unseen text: at most 0.5 false flags per 1,000 words.
-            ok = r["precision"] >= 0.92 and r["clean_realword_per_1000"] <= 0.5
+            ok = r["precision"] >= 0.93 and r["clean_realword_per_1000"] <= 0.5
             print(f"  alpha_confusable {alpha_conf:<5} alpha {alpha:<6} precision {r['precision']:.3f} recall {r['recall']:.3f}"
                   f" false/1000 {r['clean_realword_per_1000']:.2f}{'  *' if ok else ''}")
             key = (r["recall"], -r["clean_realword_per_1000"], r["precision"])
@@ -153,7 +153,9 @@ def tune_oov(model, sentences, pairs) -> float:
         rate = 1000 * false / clean_words
         recall = found / len(planted)
         print(f"  oov_log_prior {oov:<6} planted non-words found {100 * recall:.1f}%  non-word flags on clean dev text {rate:.2f}/1000 words")
-        if rate <= 1.0 and (best is None or recall > best[0]):
+        # Precision on real projects comes first: at most 0.5 flags per 1,000 clean dev words
+        # (at 1.0, and then 0.6, the false-alarm benchmark showed more findings than before).
+        if rate <= 0.5 and (best is None or recall > best[0]):
             best = (recall, oov)
     return best[1] if best else -6.0
 

@@ -6,6 +6,9 @@ Every checkable word is a hypothesis test (noisy channel, Kernighan, Church
     H0:  the word is meant as typed     alpha * P(w | left) * P(right | w)
     Hc:  the writer meant candidate c   (1 - alpha) * Q(w | c) * P(c | left) * P(right | c)
 
+with trigram context: P(c | left) = P(c | l2 l1) and P(right | c) =
+P(r1 | l1 c) * P(r2 | c r1) (``calami.context``).
+
 For a word outside the lexicon, H0 uses the language model's unknown-word
 probability times the probability of the spelling as a new word (a character
 trigram model, ``model/novel.py``, shifted by the tuned ``oov_log_prior``).  The posterior that the word is wrong is
@@ -29,6 +32,7 @@ from calami.model.lexicon import LOWER, US as US_FLAG, restore_case
 from calami.model.phonetic import sound_key
 from calami.prose_context import FUNCTION_WORDS, is_function_swap, name_positions
 from calami.text.spans import Span
+from calami.context import Left, Right, log_left, log_lefts, log_right, log_rights, window
 from calami.text.tokens import BOS, CAPS, EOS, SKIP, Token, lm_units, sentences, tokenize
 from calami.vocab.usage import CODE, HANDLE, LINK, META, WorkspaceVocabulary
 
@@ -111,7 +115,7 @@ QUESTION_STARTS = frozenset({"is", "are", "do", "does", "did", "can", "will", "s
 
 def _known_context(word_id: int, lexicon) -> bool:
     """A listed word or the sentence's start or end; not code, a URL or an unknown word."""
-    return word_id <= len(lexicon) + 1  # ids past the lexicon: <s>, </s>, then <unk>
+    return word_id <= len(lexicon) + 1  # ids past the lexicon: <s>, </s>, then <unk>, <code>
 
 
 def _irregular_plural(word: str) -> bool:
@@ -171,8 +175,10 @@ class Checker:
         max_suggestions: int = 5,
         usage: WorkspaceVocabulary | None = None,
         names: bool = False,
+        lm_order: int = 3,
     ) -> None:
         self.model = model
+        self.lm_order = lm_order  # 2: the same model as a bigram model (benchmarks compare the two)
         self.adaptations = list(adaptations)
         # The workspace's own vocabulary (None: no workspace, e.g. one buffer).
         self.usage = usage
@@ -201,7 +207,7 @@ class Checker:
         self._realword_options: dict[int, list[tuple[int, float]]] = shared["realword_options"]
         self._channel_cache: _LRU = shared["channel"]
         self._novel_cache: _LRU = shared["novel"]
-        self._lp_cache: dict[tuple[int | None, int | None], float] = shared["lp"]  # (w, v) -> log P(w | v)
+        self._lp_cache: dict[tuple, float] = shared["lp"]  # (w, v) -> log P(w | v), v a Left or w a Right window
 
     # ------------------------------------------------------------ front doors
 
@@ -224,8 +230,7 @@ class Checker:
         for i, tok in enumerate(tokens):
             if tok.kind == SKIP or (tok.kind == CAPS and not shouting):
                 continue
-            left = ids[i - 1] if i > 0 else self.model.bos
-            right = ids[i + 1] if i + 1 < len(ids) else self.model.eos
+            left, right = window(ids, i, self.model.bos, self.model.eos, self.lm_order)
             left_text = units[i - 1] if i > 0 else BOS
             right_text = units[i + 1] if i + 1 < len(units) else EOS
             self._at = tok.start
@@ -247,8 +252,7 @@ class Checker:
         """Ranked intended words for ``word`` in context; the word itself may come first."""
         # No context given: compare candidates by their unigram probability,
         # not by how often they start and end sentences.
-        left_id = self._context_id(left, last=True) if left.strip() else None
-        right_id = self._context_id(right, last=False) if right.strip() else None
+        left_id, right_id = self._text_window(left, right)
         w = word.replace("’", "'").lower()
         look = self.model.lexicon.lookup(word, self.variant)
         hyps = self._candidate_hypotheses(w, left_id, right_id, word, every_candidate=True)
@@ -262,7 +266,7 @@ class Checker:
     def _accepted_by_adaptation(self, word: str) -> bool:
         return any(a.accepts(word) for a in self.adaptations)
 
-    def _check_word(self, tok: Token, left: int, right: int, sentence_start: bool, name: bool = False):
+    def _check_word(self, tok: Token, left: Left, right: Right, sentence_start: bool, name: bool = False):
         word = tok.norm
         core = word[:-2] if word.endswith("'s") else word.rstrip("'")
         if not core or self._accepted_by_adaptation(word) or self._accepted_by_adaptation(core):
@@ -288,7 +292,10 @@ class Checker:
         hyps = self._candidate_hypotheses(w, left, right, core, every_candidate=False)
         if look.other_variant and look.key_id is not None:
             # The project asked for the other spelling variant: keeping this form is a policy breach.
-            h0 = self._h0_known(look.key_id, left, right) + math.log(1e-6)
+            # Its twin in the asked-for variant is the same word, so H0 takes the twin's
+            # context terms: which spelling the corpus used more often must not decide.
+            twins = [c for c, _ in hyps if isinstance(c, int) and lexicon.variant_pair(look.key_id, c)]
+            h0 = self._h0_known(twins[0] if twins else look.key_id, left, right) + math.log(1e-6)
         else:
             h0 = self._h0_unknown(w, left, right, core, capitalised_inside)
         h0 += math.log1p(4.0 * self._ignored(word))
@@ -420,10 +427,10 @@ class Checker:
                         return True
         return False
 
-    def _check_realword(self, word: str, kid: int, left: int, right: int):
+    def _check_realword(self, word: str, kid: int, left: Left, right: Right):
         model = self.model
         nbrs = model.realword_neighbours(kid)
-        if not nbrs or (left == model.bos and right == model.eos):
+        if not nbrs or (left.l1 == model.bos and right.r1 == model.eos):
             return None
         lexicon = model.lexicon
         # Members of known confusion sets are mixed up far more often than other words.
@@ -441,10 +448,9 @@ class Checker:
                 and not lexicon.variant_pair(kid, c)]  # the variant setting decides those, not context
         keys = lexicon.keys
         # The hottest loop of a prose check: one call per side for all options.
-        lm, log = model.lm, math.log
         cs = [c for c, _ in options]
-        lefts = [log(p) if p > 0 else -50.0 for p in lm.probs_after(left, cs)]
-        rights = [0.0] * len(cs) if right is None else [log(p) if p > 0 else -50.0 for p in lm.probs_before(right, cs)]
+        lefts = log_lefts(model.lm, left, cs)
+        rights = log_rights(model.lm, right, cs)
         hyps = [(c, base + a + b) for (c, base), a, b in zip(options, lefts, rights)]
         if boosts:
             hyps = [(c, h + boosts.get(keys[c], 0.0)) for c, h in hyps]
@@ -460,8 +466,8 @@ class Checker:
             # neighbours (a stronger posterior on top cost about 3 points of
             # real-word recall per 0.1 on development data, for little
             # precision); the other candidates are still weighed.
-            known = _known_context(left, lexicon) and _known_context(right, lexicon)
-            question = left == self.model.bos and lower in QUESTION_STARTS
+            known = _known_context(left.l1, lexicon) and _known_context(right.r1, lexicon)
+            question = left.l1 == self.model.bos and lower in QUESTION_STARTS
             if not known or question:
                 rest = [(c, h) for c, h in hyps if not is_function_swap(lower, keys[c])]
                 verdict = self._realword_verdict(word, h0, rest)
@@ -490,12 +496,12 @@ class Checker:
 
     # ------------------------------------------------------------ hypotheses
 
-    def _h0_known(self, kid: int | None, left: int | None, right: int | None, log_alpha: float | None = None) -> float:
+    def _h0_known(self, kid: int | None, left: Left, right: Right, log_alpha: float | None = None) -> float:
         if kid is None:
             return -1e9
         return (self.log_alpha if log_alpha is None else log_alpha) + self._lp(kid, left) + self._lp(right, kid)
 
-    def _h0_unknown(self, w: str, left: int, right: int, typed: str, capitalised_inside: bool) -> float:
+    def _h0_unknown(self, w: str, left: Left, right: Right, typed: str, capitalised_inside: bool) -> float:
         model = self.model
         spelling = self._novel_cache.get(w)
         if spelling is None:
@@ -544,7 +550,7 @@ class Checker:
                     best = max(best, math.log(lm.unigram(ks)) + FORMATION_LOG_RATE)
         return best
 
-    def _candidate_hypotheses(self, w: str, left: int, right: int, typed: str, every_candidate: bool):
+    def _candidate_hypotheses(self, w: str, left: Left, right: Right, typed: str, every_candidate: bool):
         boosts = self._correction_boosts(typed)
         hyps = []
         for c, lq in self._channel_candidates(w, every_candidate):
@@ -562,7 +568,7 @@ class Checker:
                 hyps.append((kid, self.log_error + lq + self._lp(kid, left) + self._lp(right, kid) + bonus))
         return hyps
 
-    def _split_hypotheses(self, w: str, left: int | None, right: int | None) -> list[tuple[str, float]]:
+    def _split_hypotheses(self, w: str, left: Left, right: Right) -> list[tuple[str, float]]:
         """Two words run together ("alot" -> "a lot"): every split into two listed words."""
         lexicon = self.model.lexicon
         out = []
@@ -574,7 +580,8 @@ class Checker:
                 continue
             if (len(a) < 3 and a not in SHORT_WORDS) or (len(b) < 3 and b not in SHORT_WORDS):
                 continue
-            h = self.log_error + log_q + self._lp(ka, left) + self._lp(kb, ka) + self._lp(right, kb)
+            h = (self.log_error + log_q + self._lp(ka, left) + self._lp(kb, Left(left.l1, ka))
+                 + self._lp(right._replace(l1=ka), kb))
             if len(a) >= COMPOUND_MIN_PART and len(b) >= COMPOUND_MIN_PART:
                 # Two content words run together ("contextmanager", "eventloop") are
                 # jargon in technical prose far more often than a missed space.
@@ -582,7 +589,7 @@ class Checker:
             out.append((a + " " + b, h))
         return out
 
-    def _possessive_hypotheses(self, w: str, left: int | None, right: int | None) -> list[tuple[str, float]]:
+    def _possessive_hypotheses(self, w: str, left: Left, right: Right) -> list[tuple[str, float]]:
         """A possessive typed without its apostrophe ("childrens" -> "children's").
 
         Possessives are not keys of the lexicon (they are derived when a
@@ -666,26 +673,40 @@ class Checker:
             self._q_cache[key] = q
         return q
 
-    def _lp(self, w: int | None, v: int | None) -> float:
-        """log P(w | v); ``v`` None is no context, ``w`` None a missing right neighbour (log 1)."""
+    def _lp(self, w: "int | Right | None", v: "int | Left | None") -> float:
+        """log P(w | v) in the trigram window (``calami.context``).
+
+        ``v`` a Left: P(w | l2 l1); ``w`` a Right: the factors of the words
+        after candidate ``v``; plain ids: P(w | v), ``v`` None no context;
+        ``w`` None a missing right neighbour (log 1).
+        """
         if w is None:
             return 0.0
-        key = (w, v)
+        key = (w, v)  # Left/Right windows are tuples: the key says what is scored in which context
         lp = self._lp_cache.get(key)
         if lp is None:
-            p = self.model.lm.prob(w, v)
-            lp = math.log(p) if p > 0 else -50.0
+            if type(w) is Right:
+                lp = log_right(self.model.lm, w, v)
+            elif type(v) is Left:
+                lp = log_left(self.model.lm, w, v)
+            else:
+                p = self.model.lm.prob(w, v)
+                lp = math.log(p) if p > 0 else -50.0
             if len(self._lp_cache) >= LP_CACHE_SIZE:
                 self._lp_cache.clear()  # cheaper than an LRU, and a fresh start refills fast
             self._lp_cache[key] = lp
         return lp
 
-    def _context_id(self, text: str, last: bool) -> int:
-        toks = [t for t in tokenize(text)] if text else []
-        if not toks:
-            return self.model.bos if last else self.model.eos
-        units = lm_units([toks[-1] if last else toks[0]])
-        return self.model.lm_id(units[0])
+    def _text_window(self, left: str, right: str) -> tuple[Left, Right]:
+        """The context ids of text given around a word; no text, no context (not <s>/</s>)."""
+        model = self.model
+        before = [model.lm_id(u) for u in lm_units(tokenize(left))][-2:] if left.strip() else []
+        after = [model.lm_id(u) for u in lm_units(tokenize(right))][:2] if right.strip() else []
+        before = [None] * (2 - len(before)) + before
+        after = after + [None] * (2 - len(after))
+        if self.lm_order < 3:
+            before[0] = after[1] = None
+        return Left(before[0], before[1]), Right(before[1], after[0], after[1])
 
     # ------------------------------------------------------------ adaptation
 

@@ -10,7 +10,10 @@ calami/model/confusables.py) is replaced by another member of its set.
 The other half stay untouched.  Printed: detection precision and recall,
 correction accuracy, false flags per 1,000 words of untouched text, at the
 shipped settings; then precision/recall curves over alpha, for members of
-confusion sets and for every other word.
+confusion sets and for every other word.  Every figure is given twice, side
+by side: with the trigram window (P(c | l2 l1) P(r1 | l1 c) P(r2 | c r1), what
+calami uses) and with the same model as a bigram model (P(c | l1) P(r1 | c),
+``Checker(lm_order=2)``).
 """
 
 from __future__ import annotations
@@ -102,29 +105,36 @@ def main() -> None:
     model = load(args.model)
     corrupted, clean = make_cases(args.sentences)
     print(f"{len(corrupted)} corrupted sentences, {len(clean)} untouched sentences (held-out SQLite docs)")
-    s = score(Checker(model), corrupted, clean)
-    print(f"shipped settings (alpha={model.params.alpha}, real-word hint={model.params.realword_hint}):")
-    print(f"  detection precision {s['precision']:.3f}  recall {s['recall']:.3f}  (tp {s['tp']}, fp {s['fp']})")
-    print(f"  correction accuracy of detected errors {s['correction']:.3f}")
-    print(f"  untouched text: {s['clean_words']} words, real-word flags {s['clean_realword_per_1000']:.2f} per 1,000 words,"
-          f" non-word flags {s['clean_nonword_per_1000']:.2f} per 1,000 words")
+    orders = (2, 3)
+    print(f"shipped settings (alpha={model.params.alpha}, alpha_confusable={model.params.alpha_confusable}, "
+          f"real-word hint={model.params.realword_hint}):")
+    for order in orders:
+        s = score(Checker(model, lm_order=order), corrupted, clean)
+        name = "trigram" if order == 3 else "bigram "
+        print(f"  {name}: detection precision {s['precision']:.3f}  recall {s['recall']:.3f}  (tp {s['tp']}, fp {s['fp']});"
+              f" correction accuracy {s['correction']:.3f}")
+        print(f"           untouched text: {s['clean_words']} words, real-word flags {s['clean_realword_per_1000']:.2f}"
+              f" per 1,000 words, non-word flags {s['clean_nonword_per_1000']:.2f} per 1,000 words")
     if not args.no_curve:
+        head = ("value      bigram: precision  recall  flags/1000 | trigram: precision  recall  flags/1000")
+
+        def curve(attr: str, values) -> None:
+            base = getattr(model.params, attr)
+            for value in values:
+                setattr(model.params, attr, value)
+                cells = []
+                for order in orders:
+                    r = score(Checker(model, lm_order=order), corrupted, clean)
+                    cells.append(f"{r['precision']:>9.3f} {r['recall']:>7.3f}  {r['clean_realword_per_1000']:>9.2f}")
+                print(f"{value:<10}        {cells[0]} |          {cells[1]}", flush=True)
+            setattr(model.params, attr, base)
+
         print("\nalpha_confusable (P(no error) for confusion-set members; other words keep alpha)")
-        print("value      precision  recall  false real-word flags per 1,000 clean words")
-        base = model.params.alpha_confusable
-        for value in (0.3, 0.5, 0.6, 0.7, 0.8, 0.9, 0.95, 0.98, 0.99):
-            model.params.alpha_confusable = value
-            r = score(Checker(model), corrupted, clean)
-            print(f"{value:<10} {r['precision']:>9.3f} {r['recall']:>7.3f}  {r['clean_realword_per_1000']:>6.2f}")
-        model.params.alpha_confusable = base
+        print(head)
+        curve("alpha_confusable", (0.3, 0.5, 0.6, 0.7, 0.8, 0.9, 0.95, 0.98, 0.99))
         print("\nalpha (P(no error) for every other listed word)")
-        print("value      precision  recall  false real-word flags per 1,000 clean words")
-        base = model.params.alpha
-        for value in (0.9, 0.95, 0.99, 0.995, 0.999, 0.9999):
-            model.params.alpha = value
-            r = score(Checker(model), corrupted, clean)
-            print(f"{value:<10} {r['precision']:>9.3f} {r['recall']:>7.3f}  {r['clean_realword_per_1000']:>6.2f}")
-        model.params.alpha = base
+        print(head)
+        curve("alpha", (0.9, 0.95, 0.99, 0.995, 0.999, 0.9999))
     print(f"\n({time.time() - t0:.0f} s)")
 
 

@@ -1,6 +1,6 @@
 """Server latency as the editor sees it (prints figures; never asserts on time).
 
-    python tests/benchmarks/bench_server.py [--fake] [--model FILE] [--edits N] [--baseline REV] [--modes push,pull]
+    python tests/benchmarks/bench_server.py [--fake] [--model FILE] [--edits N] [--baseline REV [--baseline-model own]] [--modes push,pull]
 
 A plain JSON-RPC client (asyncio pipes, ``Content-Length`` framing,
 ``json``; no LSP library on the client side, so its own decoding does not
@@ -21,7 +21,10 @@ documents open.
 ``--baseline REV`` runs the server of another commit (checked out with
 ``git worktree`` under build/) in the same run: the two servers take turns
 on every measurement, so load from other work on the machine falls on both
-alike, and the ratios are printed.
+alike, and the ratios are printed.  Both use the same model file, unless
+``--baseline-model own``: then the baseline serves the model shipped in its
+own checkout (to compare a new model with the previous one; a model file of
+another format version cannot be read by the other server).
 
 The prose is real English: docstrings of the Python standard library
 (installed with Python itself), laid out as Markdown paragraphs, with a few
@@ -385,6 +388,8 @@ def main() -> None:
     parser.add_argument("--edits", type=int, default=60)
     parser.add_argument("--starts", type=int, default=5, help="spawn -> initialize runs per server")
     parser.add_argument("--baseline", metavar="REV", help="also run this commit's server, taking turns with this one")
+    parser.add_argument("--baseline-model", choices=("same", "own"), default="same",
+                        help="'own': the baseline serves the model shipped in its checkout")
     parser.add_argument("--modes", default="push,pull")
     args = parser.parse_args()
 
@@ -399,7 +404,9 @@ def main() -> None:
         (root / ".git").mkdir(parents=True)
         servers = [server_for(REPO, "this", args.fake, model, Path(tmp) / "profile")]
         if args.baseline:
-            servers.append(server_for(baseline_tree(args.baseline), args.baseline, args.fake, model, Path(tmp) / "profile"))
+            tree = baseline_tree(args.baseline)
+            own = str(tree / "models" / "calami-en.msgpack") if args.baseline_model == "own" else model
+            servers.append(server_for(tree, args.baseline, args.fake, own, Path(tmp) / "profile"))
         print(f"servers: {', '.join(s.label for s in servers)}; checker: {'fake' if args.fake else model}; "
               f"python {sys.version.split()[0]}; {os.cpu_count()} cores")
         text = markdown_document(20_000, seed=1)

@@ -23,8 +23,15 @@ def test_round_trip_preserves_everything(tiny):
     assert loaded.lexicon.keys == model.lexicon.keys
     assert loaded.lexicon.flags == model.lexicon.flags
     assert loaded.lexicon.cased == model.lexicon.cased
-    for name in ("ctx_count", "gamma", "cont", "prior", "row_start", "col", "cnt"):
+    from calami.model.language import LanguageModel
+
+    for name in LanguageModel.ARRAYS:
         assert list(getattr(loaded.lm, name)) == list(getattr(model.lm, name)), name
+        assert getattr(loaded.lm, name).typecode == getattr(model.lm, name).typecode, name
+    for name in LanguageModel.SCALARS:
+        assert getattr(loaded.lm, name) == getattr(model.lm, name), name
+    assert len(model.lm.tri_col) > 0  # the tiny corpus repeats its sentences: trigrams are stored
+    assert loaded.lm_id("<code>") == model.code != model.unk
     loaded.candidates.wait()
     assert loaded.candidates.ids == model.candidates.ids
     assert loaded.candidates.tags == model.candidates.tags
@@ -84,6 +91,19 @@ def test_wrong_version(tmp_path):
     bad.write_bytes(msgpack.packb({"format": FORMAT, "version": 99, "header": {}, "payload": b""}))
     with pytest.raises(ModelError, match="version 99"):
         load(bad)
+
+
+def test_older_format_names_the_fix(tmp_path):
+    # A version-1 file (the bigram model, before <code> had an id of its own).
+    old = tmp_path / "old.msgpack"
+    old.write_bytes(msgpack.packb({"format": FORMAT, "version": 1, "header": {}, "payload": b""}))
+    with pytest.raises(ModelError) as err:
+        load(old)
+    message = str(err.value)
+    assert "\n" not in message and "older format" in message and "calami model build" in message
+    proc = subprocess.run([sys.executable, "-m", "calami", "suggest", "--model", str(old)],
+                          input="teh\n", capture_output=True, text=True)
+    assert proc.returncode == 2 and proc.stderr.count("\n") == 1 and "calami model build" in proc.stderr
 
 
 def test_not_a_model(tmp_path):

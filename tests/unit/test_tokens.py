@@ -94,3 +94,10 @@ def test_line_index_handles_every_line_ending():
             assert index.offset(line, col) == offset
 
     check()
+
+
+def test_corpus_code_mark_is_the_code_unit_and_other_technical_tokens_unknown():
+    # The corpus recipe writes CODE_MARK where a page had inline code.
+    from calami.text.tokens import CODE, CODE_MARK, UNK, lm_units, tokenize
+
+    assert lm_units(tokenize(f"Set {CODE_MARK} and /usr/lib now")) == ["set", CODE, "and", UNK, "now"]

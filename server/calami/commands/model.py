@@ -18,6 +18,7 @@ def register(sub: argparse._SubParsersAction) -> None:
     b.add_argument("--pairs", type=Path, nargs="*", default=[], help="misspelling<TAB>correction files (train split used)")
     b.add_argument("--no-general-frequencies", action="store_true", help="do not blend in wordfreq frequencies")
     b.add_argument("--sources", type=Path, help="JSON file describing the sources, copied into the header")
+    b.add_argument("--jobs", type=int, default=1, help="worker processes for the corpus pass (default 1)")
     b.add_argument("-o", "--output", type=Path, required=True)
     b.set_defaults(run=run_build)
     i = msub.add_parser("info", help="print a model file's header")
@@ -46,6 +47,7 @@ def run_build(args: argparse.Namespace) -> int:
         pairs=pairs,
         general_frequency=None if args.no_general_frequencies else wordfreq_frequency(),
         log=lambda msg: print(msg, file=sys.stderr, flush=True),
+        jobs=max(1, args.jobs),
     )
     if cfg.scowl_dir is None:
         raise CalamiError(f"word lists not found at {args.scowl}; install the Debian package 'scowl' or pass --scowl")

@@ -8,7 +8,7 @@ block's text and span layout, and the findings of a sentence are a function
 of its tokens.  Both are cached with offsets relative to the block/sentence
 start and shifted into place; an edit re-tokenizes only the blocks whose
 text changed and re-scores only the sentences whose tokens changed (which
-covers the neighbours whose bigram context changed: they are in the same
+covers the neighbours whose trigram context changed: they are in the same
 sentence, hence in a changed key).
 
 Blocks not used by the latest complete pass are dropped.  Sentence entries

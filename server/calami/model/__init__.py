@@ -19,8 +19,9 @@ from calami.model.channel import ChannelModel
 from calami.model.language import LanguageModel
 from calami.model.lexicon import Lexicon
 from calami.model.novel import NovelWordModel
-from calami.text.tokens import BOS, EOS
+from calami.text.tokens import BOS, CODE, EOS
 
+SPECIAL_UNITS = 4  # language-model ids after the lexicon's keys: <s>, </s>, <unk>, <code>
 
 @dataclass
 class Params:
@@ -72,12 +73,19 @@ class Model:
     def unk(self) -> int:
         return len(self.lexicon) + 2
 
+    @property
+    def code(self) -> int:
+        """Inline code: a unit of its own ("set <code> and"), not <unk>."""
+        return len(self.lexicon) + 3
+
     def lm_id(self, unit: str) -> int:
         """Language-model id of a lower-case word or special unit."""
         if unit == BOS:
             return self.bos
         if unit == EOS:
             return self.eos
+        if unit == CODE:
+            return self.code
         kid = self.lexicon.ids.get(unit)
         return self.unk if kid is None else kid
 
@@ -103,9 +111,8 @@ class Model:
                 "cased": store.pack_strings(sorted(f for forms in self.lexicon.cased.values() for f in forms)),
             },
             "lm": {
-                "vocab_size": lm.vocab_size, "discount": lm.discount, "lam": lm.lam, "cont_total": lm.cont_total,
-                **{name: store.pack_array(getattr(lm, name)) for name in
-                   ("ctx_count", "gamma", "cont", "prior", "row_start", "col", "cnt")},
+                **{name: getattr(lm, name) for name in LanguageModel.SCALARS},
+                **{name: store.pack_array(getattr(lm, name)) for name in LanguageModel.ARRAYS},
             },
             "channel": self.channel.to_dict(),
             "candidates": {
@@ -127,15 +134,15 @@ class Model:
         lexicon = Lexicon(keys, store.unpack_bytes(lx["flags"]), store.unpack_strings(lx["cased"]))
         l = payload["lm"]
         lm = LanguageModel(
-            vocab_size=l["vocab_size"], discount=l["discount"], lam=l["lam"], cont_total=l["cont_total"],
-            **{name: store.unpack_array(l[name]) for name in ("ctx_count", "gamma", "cont", "prior", "row_start", "col", "cnt")},
+            **{name: l[name] for name in LanguageModel.SCALARS},
+            **{name: store.unpack_array(l[name]) for name in LanguageModel.ARRAYS},
         )
         c = payload["candidates"]
         cand = CandidateIndex.unpacking(keys, c["bucket_bits"], lambda: (
             store.unpack_array(c["offsets"]), store.unpack_bytes(c["ids"]), store.unpack_bytes(c["tags"])))
         sound_index = SoundIndex(payload["sound"])
         rw = payload["realword"]
-        if lm.vocab_size != len(keys) + 3:
+        if lm.vocab_size != len(keys) + SPECIAL_UNITS:
             raise ValueError("language model and lexicon disagree")
         return cls(
             lexicon=lexicon, lm=lm, channel=ChannelModel.from_dict(payload["channel"]), candidates=cand,

@@ -5,7 +5,7 @@ Steps (each reported with its counts in the model header):
 2. corpus pass: tokenize prose with the same tokenizer the checker uses;
    admit frequent corpus words that are not near-misses of listed words;
 3. unigram prior = blend of general word frequencies and corpus counts;
-4. bigram Kneser-Ney language model over the lexicon's keys;
+4. trigram Kneser-Ney language model over the lexicon's keys (and <code>);
 5. error model from aligned misspelling pairs (train split only): single-letter
    edits in context and multi-character rules;
 6. indexes: deletion neighbourhood, real-word neighbours, sound keys.
@@ -25,15 +25,15 @@ from datetime import datetime, timezone
 from pathlib import Path
 from typing import Callable, Iterator, Sequence
 
-from calami.model import Model, Params
+from calami.model import SPECIAL_UNITS, Model, Params
 from calami.model.candidates import CandidateIndex
 from calami.model.channel import ChannelModel, text_char_counts, train_channel
 from calami.model.confusables import confusion_pairs
-from calami.model.language import BigramCounter, build_language_model
+from calami.model.language import NgramCounter, build_language_model
 from calami.model.lexicon import CORPUS, GB, LOWER, OTHER, US, Lexicon
 from calami.model.novel import NovelWordModel
 from calami.model.phonetic import sound_key
-from calami.text.tokens import SKIP, lm_units, sentences, tokenize
+from calami.text.tokens import CODE, SKIP, UNK, lm_units, sentences, tokenize
 
 # SCOWL list families we read, and the variant bits they grant.
 SCOWL_FAMILIES = {
@@ -58,13 +58,15 @@ class BuildConfig:
     general_frequency: Callable[[str], float] | None = None
     admit_min_count: int = 20
     admit_min_sources: int = 2
-    lm_min_count: int = 2
+    lm_min_count2: int = 2  # bigrams stored when they follow at least this many distinct words
+    lm_min_count3: int = 2  # trigrams stored when seen at least this often
     lm_lam: float = 0.3
     prior_blend: float = 0.5  # weight of general frequencies vs corpus counts
     realword_top: int = 40000  # real-word checks among the most frequent keys
     realword_max_neighbours: int = 12
     sound_top: int = 80000
     params: Params = field(default_factory=Params)
+    jobs: int = 1  # worker processes for the corpus pass
     log: Callable[[str], None] = lambda msg: None
 
 
@@ -139,31 +141,81 @@ class CorpusCounts:
     tokens: int
 
 
+def _tokenize_chunk(packed: bytes) -> bytes:
+    """Worker: paragraphs -> LM sentences, surface forms, keys seen per source (msgpack in and out)."""
+    import msgpack
+
+    out_sents: list[list[str]] = []
+    surface: Counter[tuple[str, str]] = Counter()
+    seen: dict[str, set[str]] = defaultdict(set)
+    for source, para in msgpack.unpackb(packed):
+        for sent in sentences(tokenize(para)):
+            seq = lm_units(sent)
+            if all(u == UNK or u == CODE for u in seq):
+                continue
+            out_sents.append(seq)
+            keys = seen[source]
+            for tok in sent:
+                if tok.kind != SKIP:
+                    key = tok.norm.lower()
+                    keys.add(key)
+                    if tok.text != key:
+                        surface[key, tok.norm] += 1
+    return msgpack.packb([out_sents, [[k, f, c] for (k, f), c in surface.items()],
+                          {src: sorted(keys) for src, keys in seen.items()}])
+
+
+def _chunks(cfg: BuildConfig, size: int = 4000) -> Iterator[bytes]:
+    import msgpack
+
+    chunk: list[tuple[str, str]] = []
+    for item in corpus_paragraphs(cfg):
+        chunk.append(item)
+        if len(chunk) >= size:
+            yield msgpack.packb(chunk)
+            chunk = []
+    if chunk:
+        yield msgpack.packb(chunk)
+
+
 def read_corpus(cfg: BuildConfig) -> CorpusCounts:
+    """Tokenize the corpus (in ``cfg.jobs`` forked workers; tasks and results cross as msgpack bytes)."""
+    import msgpack
+
     intern: dict[str, str] = {}
     units: Counter[str] = Counter()
     sources: dict[str, set[str]] = defaultdict(set)
     surface: dict[str, Counter[str]] = defaultdict(Counter)
     out: list[list[str]] = []
     tokens = 0
-    for n, (source, para) in enumerate(corpus_paragraphs(cfg)):
-        toks = tokenize(para)
-        for sent in sentences(toks):
-            seq = [intern.setdefault(u, u) for u in lm_units(sent)]
-            if not any(u != "<unk>" for u in seq):
-                continue
-            out.append(seq)
-            tokens += len(seq)
-            units.update(seq)
-            for tok in sent:
-                if tok.kind != SKIP:
-                    key = tok.norm.lower()
+    pool = None
+    if cfg.jobs > 1:
+        import multiprocessing
+
+        pool = multiprocessing.get_context("fork").Pool(cfg.jobs)
+        results = pool.imap(_tokenize_chunk, _chunks(cfg), chunksize=1)
+    else:
+        results = map(_tokenize_chunk, _chunks(cfg))
+    try:
+        for n, packed in enumerate(results):
+            sents, forms, seen = msgpack.unpackb(packed)
+            for seq in sents:
+                seq = [intern.setdefault(u, u) for u in seq]
+                out.append(seq)
+                tokens += len(seq)
+                units.update(seq)
+            for key, form, count in forms:
+                surface[key][form] += count
+            for source, keys in seen.items():
+                for key in keys:
                     if len(sources[key]) < 3:
                         sources[key].add(source)
-                    if tok.text != key:
-                        surface[key][tok.norm] += 1
-        if n % 200000 == 0 and n:
-            cfg.log(f"  corpus: {n} paragraphs, {tokens} tokens")
+            if n % 50 == 0 and n:
+                cfg.log(f"  corpus: {tokens} tokens")
+    finally:
+        if pool is not None:
+            pool.close()
+            pool.join()
     return CorpusCounts(out, units, sources, surface, tokens)
 
 
@@ -229,9 +281,9 @@ def build(cfg: BuildConfig) -> tuple[Model, dict]:
     lexicon = Lexicon(keys, flags, cased_forms)
     log(f"lexicon: {len(keys)} keys ({len(admitted)} admitted from the corpus), {len(cased_forms)} cased forms")
 
-    # Unigram prior over LM ids (keys, then <s>, </s>, <unk>).
-    V = len(keys) + 3
-    bos, eos, unk = len(keys), len(keys) + 1, len(keys) + 2
+    # Unigram prior over LM ids (keys, then <s>, </s>, <unk>, <code>).
+    V = len(keys) + SPECIAL_UNITS
+    bos, eos, unk, code = len(keys), len(keys) + 1, len(keys) + 2, len(keys) + 3
     corpus_total = sum(corpus.units.values()) or 1
     gen = [general(k) for k in keys]
     gen_total = sum(gen) or 1.0
@@ -239,13 +291,20 @@ def build(cfg: BuildConfig) -> tuple[Model, dict]:
     blend = cfg.prior_blend if cfg.general_frequency else 0.0
     prior = [blend * g / gen_total + (1 - blend) * corpus.units.get(k, 0) / corpus_total + floor
              for k, g in zip(keys, gen)]
-    prior += [0.0, len(corpus.sentences) / corpus_total, corpus.units.get("<unk>", 0) / corpus_total + floor]
+    prior += [0.0, len(corpus.sentences) / corpus_total, corpus.units.get(UNK, 0) / corpus_total + floor,
+              corpus.units.get(CODE, 0) / corpus_total + floor]
 
-    counter = BigramCounter(V, bos, eos)
+    counter = NgramCounter(V, bos, eos)
+    special = {UNK: unk, CODE: code}
     for sent in corpus.sentences:
-        counter.add_sentence([key_pos.get(u, unk) for u in sent])
-    lm = build_language_model(counter, prior, lam=cfg.lm_lam, min_count=cfg.lm_min_count)
-    log(f"language model: {len(counter.bigrams)} bigram types, {len(lm.col)} stored (count >= {cfg.lm_min_count}), D = {lm.discount:.3f}")
+        counter.add_sentence([key_pos.get(u, unk) if u not in special else special[u] for u in sent])
+    corpus.sentences.clear()  # the counter holds them as ids now
+    counts = counter.counts()
+    lm = build_language_model(counts, prior, lam=cfg.lm_lam, min_count2=cfg.lm_min_count2, min_count3=cfg.lm_min_count3)
+    lm_sizes = lm.sizes()
+    log(f"language model: {counts.trigram_types} trigram types, {lm_sizes['trigrams_stored']} stored "
+        f"(count >= {cfg.lm_min_count3}) in {lm_sizes['trigram_contexts']} contexts; {lm_sizes['bigrams_stored']} bigrams "
+        f"stored (continuation count >= {cfg.lm_min_count2}); D2 = {lm.d2:.3f}, D3 = {lm.d3:.3f}")
 
     channel = error_model_trainer(keys, prior)(cfg.pairs)
     by_prior = sorted(range(len(keys)), key=lambda k: -prior[k])
@@ -273,14 +332,16 @@ def build(cfg: BuildConfig) -> tuple[Model, dict]:
         "build_seconds": round(time.time() - t0, 1),
         "counts": {
             "word_list_forms": len(forms), "keys": len(keys), "admitted_from_corpus": len(admitted),
-            "cased_forms": len(cased_forms), "corpus_tokens": corpus.tokens, "corpus_sentences": len(corpus.sentences),
-            "bigram_types": len(counter.bigrams), "bigrams_stored": len(lm.col), "pairs": len(cfg.pairs),
+            "cased_forms": len(cased_forms), "corpus_tokens": corpus.tokens, "corpus_sentences": counter.sentences,
+            "bigram_types": counts.bigram_types, "trigram_types": counts.trigram_types, **lm_sizes,
+            "pairs": len(cfg.pairs),
             "candidate_entries": candidates.stats()["entries"], "realword_links": len(neighbours),
             "sound_keys": len(sound_index), "error_rules": len(channel.rules),
         },
         "settings": {
-            "scowl_max_size": cfg.scowl_max_size, "lm_min_count": cfg.lm_min_count, "lm_lam": cfg.lm_lam,
-            "prior_blend": blend, "discount": lm.discount,
+            "scowl_max_size": cfg.scowl_max_size, "lm_order": 3, "lm_min_count2": cfg.lm_min_count2,
+            "lm_min_count3": cfg.lm_min_count3, "lm_lam": cfg.lm_lam, "prior_blend": blend,
+            "discount_bigram": lm.d2, "discount_trigram": lm.d3,
         },
     }
     return model, header

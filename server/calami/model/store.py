@@ -22,7 +22,8 @@ import msgpack
 from calami.errors import ModelError
 
 FORMAT = "calami-model"
-VERSION = 1
+# 2: trigram language model with a <code> unit (1 was the bigram model).
+VERSION = 2
 
 
 def pack_array(a: array) -> dict[str, Any]:
@@ -87,6 +88,9 @@ def read_model(path: Path) -> tuple[dict[str, Any], dict[str, Any]]:
     if not isinstance(outer, dict) or outer.get("format") != FORMAT:
         raise ModelError(f"{path} is not a calami model file")
     version = outer.get("version")
+    if isinstance(version, int) and version < VERSION:
+        raise ModelError(f"model file {path} is in an older format (version {version}, this calami reads {VERSION}); "
+                         "rebuild it with 'calami model build' or reinstall calami")
     if version != VERSION:
         raise ModelError(f"model file {path} has format version {version}, this calami reads version {VERSION}; install a matching model")
     header, body = outer.get("header"), outer.get("payload")

@@ -6,7 +6,7 @@ language model scores words it never saw as such.  One regular expression
 decides which are checkable words and which are technical material that is
 never flagged (URLs, paths, options, identifiers, numbers, hashes).
 
-A token's ``sentence`` number groups tokens for bigram context: context never
+A token's ``sentence`` number groups tokens for n-gram context: context never
 crosses a sentence end or a span that starts a new block.
 """
 
@@ -142,8 +142,13 @@ def sentences(tokens: Iterable[Token]) -> Iterator[list[Token]]:
 BOS = "<s>"
 EOS = "</s>"
 UNK = "<unk>"
+CODE = "<code>"  # the language-model unit for inline code
+# What stands for inline code in text: the corpus recipe writes it where a page
+# had inline code, and the checker's placeholder tokens carry it as their text.
+CODE_MARK = "_code_"
 
 
 def lm_units(sentence: Sequence[Token]) -> list[str]:
-    """The language-model view of one sentence: lower-cased words, <unk> for technical material."""
-    return [t.norm.lower() if t.kind != SKIP else UNK for t in sentence]
+    """The language-model view of one sentence: lower-cased words, <code> for inline code,
+    <unk> for other technical material."""
+    return [t.norm.lower() if t.kind != SKIP else CODE if t.text == CODE_MARK else UNK for t in sentence]
