@@ -132,7 +132,10 @@ class CalamiServer(LanguageServer):
     def learn_vocabulary(self, loop: Any) -> None:
         """Start learning each folder's vocabulary; re-check when a scan is done."""
         def done(folder: Path) -> None:
-            loop.call_soon_threadsafe(self._vocabulary_changed)
+            try:
+                loop.call_soon_threadsafe(self._vocabulary_changed)
+            except RuntimeError:  # the server stopped while the scan ran: nothing left to re-check
+                pass
 
         self.projects.scans.on_done = done
         self.projects.scans.start(self.projects.folders)
