@@ -106,6 +106,8 @@ def main() -> None:
     ap.add_argument("--sentences", type=int, default=4000)
     ap.add_argument("--seed", type=int, default=11)
     ap.add_argument("--max-reuse", type=int, default=2, help="times one misspelling pair may be planted")
+    ap.add_argument("--workspace", action="store_true",
+                    help="learn the workspace vocabulary from all the documents first, as calami check does")
     args = ap.parse_args()
     model = load(args.model)
     checker = Checker(model)
@@ -113,6 +115,14 @@ def main() -> None:
     lines = [l.strip() for l in SENTENCES.read_text(encoding="utf-8").splitlines() if l.strip()][: args.sentences]
     planted, clean = planted_documents(lines, random.Random(args.seed), max_reuse=args.max_reuse)
     own = [(REPO / name).read_text(encoding="utf-8") for name in ("README.md", "DEVELOPERS.md")]
+    if args.workspace:
+        # As `calami check --fix .` runs: every checked document teaches the workspace vocabulary.
+        from calami.vocab.usage import WorkspaceVocabulary
+
+        vocabulary = WorkspaceVocabulary(model.lexicon.ids.__contains__)
+        for n, text in enumerate([t for t, _ in planted] + clean + own):
+            vocabulary.add_text(f"doc{n}.md", text, "markdown")
+        checker = Checker(model, usage=vocabulary)
     started = time.perf_counter()
     with tempfile.TemporaryDirectory() as folder:
         project = Project(Path(folder))  # defaults: no project words, no skip patterns
