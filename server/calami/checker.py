@@ -28,13 +28,17 @@ from typing import Callable, Mapping, Protocol, Sequence
 from calami.findings import NONWORD, REALWORD, Finding, Suggestion, Thresholds
 from calami.model import Model
 from calami.model.confusables import confusion_pairs
-from calami.model.lexicon import LOWER, US as US_FLAG, restore_case
+from calami.model.lexicon import LOWER, restore_case
 from calami.model.phonetic import sound_key
 from calami.prose_context import FUNCTION_WORDS, is_function_swap, name_positions
 from calami.text.spans import Span
 from calami.context import Left, Right, log_left, log_lefts, log_right, log_rights, window
 from calami.text.tokens import BOS, CAPS, EOS, SKIP, Token, lm_units, sentences, tokenize
-from calami.vocab.usage import CODE, HANDLE, LINK, META, WorkspaceVocabulary
+from calami.precision import (
+    CAPITAL_INSIDE_SKIP, COMPOUND_MIN_PART, COMPOUND_SPLIT_LOG_PENALTY, NAME_CONTEXT_LOG_BONUS, NONASCII_LOG_BONUS,
+    QUESTION_STARTS, TECHNICAL_REALWORD_HINT, PrecisionRules, known_context,
+)
+from calami.vocab.usage import WorkspaceVocabulary
 
 MIN_NONWORD_LENGTH = 3  # shorter unknown tokens are abbreviations far more often than typos
 CONFUSABLE_Q = 0.02  # floor for Q(w | c) between members of a confusion set
@@ -58,31 +62,6 @@ PREFIXES = ("re", "un", "pre", "de", "non", "sub", "multi", "auto", "inter", "ov
 # Words of one or two letters that a run-together pair may contain ("alot" ->
 # "a lot", "inthe" -> "in the"); other short keys ("ed", "th") are abbreviations.
 SHORT_WORDS = frozenset("a i an as at be by do go he if in is it me my no of on or so to up us we".split())  # a new word made of one letter and a listed word (ditto)
-# Workspace vocabulary (a cache model, Kuhn & De Mori 1990): weight of the
-# workspace's own distribution of unknown words against the spelling model.
-CACHE_LOG_WEIGHT = math.log(0.3)
-# A URL, an e-mail address, an @handle or a package manifest is copied, not
-# typed: worth this many extra uses as a witness that a word is a name.
-COPIED_WITNESS = 2.0
-# An unknown word one edit from a listed word at least this frequent could
-# be a habitual or copy-pasted typo of it, however often it is typed in
-# prose: the workspace makes it right only if it is used at least
-# REPEATED_TYPO_USES times and also named where people do not type freely
-# (code identifiers, URLs, handles, manifests).
-FREQUENT_PRIOR = 1e-6
-REPEATED_TYPO_USES = 3
-NAMED_SOURCES = CODE | LINK | HANDLE | META
-# log factor for an unknown capitalised word where names stand (contributor
-# lists, beside @handles): our estimate, tuned on development documents.
-NAME_CONTEXT_LOG_BONUS = 7.0
-COMPOUND_MIN_PART = 3
-PARTICLES = frozenset({"up", "in", "on", "by"})
-COMPOUND_SPLIT_LOG_PENALTY = math.log(0.1)  # tuned on development documents
-# Words with letters beyond ASCII in English technical prose are names or
-# foreign words far more often than typos (a slip seldom adds a diacritic).
-NONASCII_LOG_BONUS = 8.0
-# Endings after an apostrophe that make a listed word a regular form.
-APOSTROPHE_ENDINGS = frozenset({"re", "d", "ve", "ll", "m", "ing", "ed", "s", "es"})
 
 
 class Adaptation(Protocol):
@@ -101,21 +80,6 @@ class Adaptation(Protocol):
 def _logsumexp(values: Sequence[float]) -> float:
     top = max(values)
     return top + math.log(sum(math.exp(v - top) for v in values))
-
-
-# A real word capitalised inside a sentence is a proper name ("the Sane interface").
-CAPITAL_INSIDE_SKIP = True
-# Posterior a real-word slip needs in a sentence that holds code, a URL or an
-# identifier (tuned on development documents: 0.41 -> 0.19 false real-word
-# findings per 1,000 words, real-word benchmark recall 0.670 -> 0.669).
-TECHNICAL_REALWORD_HINT = 0.95
-# A sentence that starts with these is a yes/no question ("Is this related?").
-QUESTION_STARTS = frozenset({"is", "are", "do", "does", "did", "can", "will", "should", "was", "were"})
-
-
-def _known_context(word_id: int, lexicon) -> bool:
-    """A listed word or the sentence's start or end; not code, a URL or an unknown word."""
-    return word_id <= len(lexicon) + 1  # ids past the lexicon: <s>, </s>, then <unk>, <code>
 
 
 def _irregular_plural(word: str) -> bool:
@@ -158,7 +122,7 @@ def _shared_caches(model: Model, variant: str) -> dict:
     return caches
 
 
-class Checker:
+class Checker(PrecisionRules):
     """Scores tokens with the model and the user's/project's adaptations.
 
     ``check_sentence`` is a pure function of the sentence's token texts and
@@ -333,100 +297,6 @@ class Checker:
                     self.observer(self._at, word, doubt[0], doubt[1])
         return NONWORD, p_wrong, tuple(suggestions), confident
 
-    def _nonword_doubt(self, w: str, core: str, best: int | str):
-        """(rule, reason) when a likely fix still should not be applied unread, else None."""
-        if self._compound_parts(w) is not None:
-            # "contextmanager", "linewidth": in technical prose far more often
-            # an identifier or jargon than a slip.
-            return "compound", "a closed compound of two listed words is never a confident fix"
-        if not core.isascii():
-            return "name", "a word with letters beyond ASCII is a name or a foreign word more often than a slip"
-        if isinstance(best, int) and core[:1].isupper() and not self.model.lexicon.flags[best] & LOWER:
-            return "name", "one name is not a confident fix for another ('Matthieu', 'Mathieu')"
-        if self.usage is not None:
-            use = self.usage.use(w)
-            if use is not None and use.sources & NAMED_SOURCES:
-                return "workspace", f"the workspace names it: {use.describe()}"
-        return None
-
-    def _workspace_h0_gain(self, w: str):
-        """("workspace", log gain, description) from the cache model, or None.
-
-        P(spelling | unknown) becomes (1 - l) P_novel + l P_cache, where
-        P_cache is the word's share of the workspace's uses of unknown
-        words, this use left out.  A word one edit from a frequent listed
-        word that the workspace uses only once or twice stays as it was: a
-        copy-pasted typo repeats too.
-        """
-        use = self.usage.use(w)
-        if use is None:
-            return None
-        copied = bool(use.sources & (LINK | HANDLE | META))
-        witness = (use.count - 1) + (COPIED_WITNESS if copied else 0.0)
-        if witness <= 0:
-            return None
-        if self._near_frequent(w) and (use.raw < REPEATED_TYPO_USES or not use.sources & NAMED_SOURCES):
-            return None
-        spelling = self._novel_cache.get(w)
-        if spelling is None:
-            spelling = self._novel_cache.put(w, self._novel_logprob(w))
-        static = self.model.params.oov_log_prior + spelling
-        cache = CACHE_LOG_WEIGHT + math.log(witness / max(1.0, float(self.usage.total)))
-        mixed = max(static, cache) + math.log1p(math.exp(-abs(static - cache)))
-        gain = mixed - static
-        return ("workspace", gain, use.describe()) if gain > 0 else None
-
-    def workspace_note(self, word: str) -> str | None:
-        """Why an unlisted word is not flagged, when the workspace's use is the reason (for the hover)."""
-        if self.usage is None or self.model.lexicon.lookup(word, self.variant).accepted:
-            return None
-        w = word.replace("’", "'").lower()
-        gain = self._workspace_h0_gain(w)
-        return None if gain is None else f"not in the word lists; accepted because the workspace uses it: {gain[2]}"
-
-    def _near_frequent(self, w: str) -> bool:
-        """True if a frequent lower-case listed word is one edit from ``w``."""
-        lexicon, prior = self.model.lexicon, self.model.lm.prior
-        return any(lexicon.flags[c] & LOWER and prior[c] >= FREQUENT_PRIOR
-                   for c in self.model.candidates.within(w, 1))
-
-    def _compound_parts(self, w: str) -> tuple[str, str] | None:
-        """Two listed lower-case words that ``w`` is made of, if any ("followup", "linewidth").
-
-        Parts have 3+ letters, except a closing particle ("setup", "followup").
-        """
-        ids, flags = self.model.lexicon.ids, self.model.lexicon.flags
-        for i in range(COMPOUND_MIN_PART, len(w) - 1):
-            a, b = w[:i], w[i:]
-            if len(b) < COMPOUND_MIN_PART and b not in PARTICLES:
-                continue
-            ka, kb = ids.get(a), ids.get(b)
-            if ka is not None and kb is not None and flags[ka] & LOWER and flags[kb] & LOWER:
-                return a, b
-        return None
-
-    def _regular_unlisted_form(self, w: str) -> bool:
-        """True for forms the word lists leave out but English makes regularly.
-
-        British spellings of listed American words ("customisable",
-        "canonicalisation": -is- for -iz-), right under "any" and "en-GB";
-        and contractions or quoted-verb endings on a listed word ("that're",
-        "there'd", "install'ing").
-        """
-        lexicon = self.model.lexicon
-        if "'" in w:
-            head, _, tail = w.rpartition("'")
-            if tail in APOSTROPHE_ENDINGS and head in lexicon.ids and lexicon.flags[lexicon.ids[head]] & LOWER:
-                return True
-        if self.variant != "en-US" and "is" in w:
-            for i in range(len(w) - 3):
-                if w.startswith("is", i) and w[i + 2] in "aei":
-                    us = w[:i] + "iz" + w[i + 2:]
-                    kid = lexicon.ids.get(us)
-                    if kid is not None and lexicon.flags[kid] & LOWER and lexicon.flags[kid] & US_FLAG:
-                        return True
-        return False
-
     def _check_realword(self, word: str, kid: int, left: Left, right: Right):
         model = self.model
         nbrs = model.realword_neighbours(kid)
@@ -466,7 +336,7 @@ class Checker:
             # neighbours (a stronger posterior on top cost about 3 points of
             # real-word recall per 0.1 on development data, for little
             # precision); the other candidates are still weighed.
-            known = _known_context(left.l1, lexicon) and _known_context(right.r1, lexicon)
+            known = known_context(left.l1, lexicon) and known_context(right.r1, lexicon)
             question = left.l1 == self.model.bos and lower in QUESTION_STARTS
             if not known or question:
                 rest = [(c, h) for c, h in hyps if not is_function_swap(lower, keys[c])]
