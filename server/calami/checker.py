@@ -35,7 +35,7 @@ from calami.text.spans import Span
 from calami.context import Left, Right, log_left, log_lefts, log_right, log_rights, window
 from calami.text.tokens import BOS, CAPS, EOS, SKIP, Token, lm_units, sentences, tokenize
 from calami.precision import (
-    CAPITAL_INSIDE_SKIP, COMPOUND_MIN_PART, COMPOUND_SPLIT_LOG_PENALTY, NAME_CONTEXT_LOG_BONUS, NONASCII_LOG_BONUS,
+    COMPOUND_MIN_PART, COMPOUND_SPLIT_LOG_PENALTY, NAME_CONTEXT_LOG_BONUS, NONASCII_LOG_BONUS,
     QUESTION_STARTS, TECHNICAL_REALWORD_HINT, PrecisionRules, known_context,
 )
 from calami.vocab.usage import WorkspaceVocabulary
@@ -243,7 +243,7 @@ class Checker(PrecisionRules):
                 return None  # right as a possessive of a listed word; its stem's neighbours do not apply
             if name and word[:1].isupper():
                 return None  # "Calum Lind", "Victor": a name, not a slip for "Lint", "vector"
-            if CAPITAL_INSIDE_SKIP and not sentence_start and word[:1].isupper():
+            if not sentence_start and word[:1].isupper():
                 return None  # "the Sane interface": capitalised inside a sentence, a proper name
             return self._check_realword(word, look.key_id, left, right)
         if look.key_id is not None and not look.other_variant:

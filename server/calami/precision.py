@@ -42,8 +42,6 @@ NONASCII_LOG_BONUS = 8.0
 # Endings after an apostrophe that make a listed word a regular form.
 APOSTROPHE_ENDINGS = frozenset({"re", "d", "ve", "ll", "m", "ing", "ed", "s", "es"})
 
-# A real word capitalised inside a sentence is a proper name ("the Sane interface").
-CAPITAL_INSIDE_SKIP = True
 # Posterior a real-word slip needs in a sentence that holds code, a URL or an
 # identifier (tuned on development documents: 0.41 -> 0.19 false real-word
 # findings per 1,000 words, real-word benchmark recall 0.670 -> 0.669).

@@ -22,16 +22,8 @@ needs_model = pytest.mark.skipif(not default_model_path().exists(), reason="ship
 @pytest.fixture
 def real_check(model, monkeypatch, capsys):
     """Run ``calami check`` in a folder with the session's model (loaded once)."""
-    from calami.checker import Checker
-
-    def factory(model_path):
-        def make(project, variant):
-            config = project.config
-            return Checker(model, adaptations=[project.words], variant=variant or config.variant,
-                           thresholds=config.thresholds, max_suggestions=config.max_suggestions)
-        return make
-
-    monkeypatch.setattr(check_command, "CHECKER_FACTORY", factory)
+    monkeypatch.setattr(check_command, "CHECKER_FACTORY",
+                        lambda model_path: check_command.checker_factory_for(model))
 
     def run(folder: Path, *argv: str):
         monkeypatch.chdir(folder)

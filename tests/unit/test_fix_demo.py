@@ -4,7 +4,6 @@ mistake set to the intended word (demo/EXPECTED.md), and every other byte stays 
 from __future__ import annotations
 
 import shutil
-from pathlib import Path
 
 from calami import cli
 from calami.commands import check as check_command
@@ -13,16 +12,8 @@ from unit.test_check_real import DEMO, expected_mistakes  # noqa: F401  (same ta
 
 
 def test_fix_on_the_demo_repairs_only_planted_mistakes(model, tmp_path, monkeypatch, capsys):
-    from calami.checker import Checker
-
-    def factory(model_path):
-        def make(project, variant):
-            config = project.config
-            return Checker(model, adaptations=[project.words], variant=variant or config.variant,
-                           thresholds=config.thresholds, max_suggestions=config.max_suggestions)
-        return make
-
-    monkeypatch.setattr(check_command, "CHECKER_FACTORY", factory)
+    monkeypatch.setattr(check_command, "CHECKER_FACTORY",
+                        lambda model_path: check_command.checker_factory_for(model))
     demo = tmp_path / "demo"
     shutil.copytree(DEMO, demo)
     monkeypatch.chdir(demo)

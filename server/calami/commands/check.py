@@ -324,10 +324,14 @@ def _unpack_result(result: dict[str, Any]):
 
 def default_checker_factory(model_path: str | None) -> Callable[[Any, str | None], Any]:
     """Load the model once; return a function building a project's checker."""
-    from calami.checker import Checker
     from calami.model import load
 
-    model = load(model_path)
+    return checker_factory_for(load(model_path))
+
+
+def checker_factory_for(model: Any) -> Callable[[Any, str | None], Any]:
+    """A function building a project's checker on an already loaded model."""
+    from calami.checker import Checker
 
     def make(project: Any, variant: str | None) -> Any:
         config = project.config

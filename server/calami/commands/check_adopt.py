@@ -68,7 +68,7 @@ def wants_digest(args: argparse.Namespace) -> bool:
 def plan_changed(args: argparse.Namespace) -> "tuple[Plan, Changes]":
     """Documents to check for --changed/--staged: changed files under the given paths, and their lines."""
     from calami import gitdiff
-    from calami.commands.check import Plan, Task
+    from calami.commands.check import Plan, Task, _first_line
     from calami.text.formats import detect_kind
     from calami.vocab.project import load_project
 
@@ -135,14 +135,6 @@ def _whole_tree(changes: Any, scopes: list[Path], checked: list[Any], kind: str 
         if found_kind is not None and root is not None:  # only projects with a checked file need a vocabulary
             out.append(Task(name, str(path), str(root), found_kind))
     return out
-
-
-def _first_line(path: Path) -> str:
-    try:
-        with open(path, "rb") as handle:
-            return handle.readline(200).decode("utf-8", "replace").rstrip("\r\n")
-    except OSError:
-        return ""
 
 
 def _display(path: Path, cwd: Path) -> str:
